@@ -32,9 +32,25 @@ __all__ = ["is_name", "parse"]
 # Characters people paste from word processors or other scripts instead of the
 # plain brackets and comma; named in the error so the fix is obvious.
 _LOOKALIKES = {
-    "（": "(", "）": ")", "［": "(", "］": ")", "｛": "(", "｝": ")",
-    "⟨": "(", "⟩": ")", "❨": "(", "❩": ")", "﹙": "(", "﹚": ")",
-    "，": ",", "、": ",", "‚": ",", "[": "(", "]": ")", "{": "(", "}": ")",
+    "（": "(",
+    "）": ")",
+    "［": "(",
+    "］": ")",
+    "｛": "(",
+    "｝": ")",
+    "⟨": "(",
+    "⟩": ")",
+    "❨": "(",
+    "❩": ")",
+    "﹙": "(",
+    "﹚": ")",
+    "，": ",",
+    "、": ",",
+    "‚": ",",
+    "[": "(",
+    "]": ")",
+    "{": "(",
+    "}": ")",
 }
 
 
@@ -167,7 +183,9 @@ def parse(text: str) -> Coupling:
     if stack:
         raise fail("unclosed '('", stack[-1].start)
     if len(top) > 1:
-        raise fail("text after the end of the scheme (the total must be the outermost coupling)", top[1][1])
+        raise fail(
+            "text after the end of the scheme (the total must be the outermost coupling)", top[1][1]
+        )
     node = top[0][0]
     if isinstance(node, Leaf):
         raise fail("a scheme needs at least two angular momenta coupled in brackets", 0)

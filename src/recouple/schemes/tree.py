@@ -19,7 +19,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Union
+from typing import TYPE_CHECKING, TypeAlias
 
 from recouple.errors import SchemeMismatch
 
@@ -147,7 +147,7 @@ class Coupling:
         return len(self.leaves())
 
 
-Node = Union[Leaf, Coupling]
+Node: TypeAlias = "Leaf | Coupling"
 
 
 def check_scheme(node: Node) -> Coupling:
@@ -167,7 +167,9 @@ def check_scheme(node: Node) -> Coupling:
         )
     leaves = node.leaves()
     if len(leaves) > MAX_LEAVES:
-        raise SchemeMismatch(f"a scheme may couple at most {MAX_LEAVES} angular momenta, got {len(leaves)}")
+        raise SchemeMismatch(
+            f"a scheme may couple at most {MAX_LEAVES} angular momenta, got {len(leaves)}"
+        )
     seen: set[str] = set()
     for name in leaves:
         if name in seen:
