@@ -1,0 +1,340 @@
+"""The ``recouple`` command line: the only place that parses argv, prints or exits.
+
+Every command returns an exit status: 0 on success, 2 on bad input (one line on
+stderr, no traceback), 1 on an unexpected internal error (a plain message asking
+for a report).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+import threading
+from collections.abc import Callable, Iterator, Sequence
+from contextlib import contextmanager
+from typing import Any, NoReturn, TextIO
+
+from recouple import __version__
+from recouple.errors import BadValue, RecoupleError
+
+__all__ = ["main"]
+
+PROG = "recouple"
+
+_EPILOG_MAIN = """\
+examples:
+  recouple derive "((a,b)e,c)J" "(a,(b,c)f)J"
+  recouple derive "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --latex
+  recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 --set b=1/2 --set c=1/2 \\
+      --set e=1 --set f=0 --set J=1/2 --check
+  recouple symbol 6j 1 2 3 2 1 2
+
+Conventions: Condon-Shortley phases; (a,b)c couples a first (a fills the first slot
+of the Clebsch-Gordan coefficient). See docs/conventions.md.
+"""
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with one-line errors and exit status 2."""
+
+    def error(self, message: str) -> NoReturn:
+        raise _UsageError(f"{self.prog}: {message} (see '{self.prog} --help')")
+
+
+class _UsageError(Exception):
+    pass
+
+
+def _parse_sets(items: Sequence[str] | None) -> dict[str, str]:
+    """``NAME=VALUE`` pairs from repeated ``--set``; a name given twice is an error."""
+    out: dict[str, str] = {}
+    for item in items or ():
+        name, sep, value = item.partition("=")
+        name, value = name.strip(), value.strip()
+        if not sep or not name or not value:
+            raise BadValue(f"--set expects NAME=VALUE, got {item!r}")
+        if name in out:
+            raise BadValue(f"--set given twice for {name!r} ({out[name]!r} and {value!r})")
+        out[name] = value
+    return out
+
+
+@contextmanager
+def _progress(message: str, stream: TextIO) -> Iterator[None]:
+    """Say ``message`` on stderr if the block takes more than a second."""
+    timer = threading.Timer(1.0, lambda: print(f"{PROG}: {message} ...", file=stream, flush=True))
+    timer.daemon = True
+    timer.start()
+    try:
+        yield
+    finally:
+        timer.cancel()
+
+
+def _search_options(args: argparse.Namespace) -> dict[str, Any]:
+    options: dict[str, Any] = {}
+    if args.max_expansions is not None:
+        options["max_expansions"] = args.max_expansions
+    if args.max_seconds is not None:
+        options["max_seconds"] = args.max_seconds
+    return options
+
+
+def _derive(args: argparse.Namespace, err: TextIO) -> Any:
+    from recouple.recoupling.derive import derive
+
+    with _progress("searching for the shortest path", err):
+        return derive(args.source, args.target, **_search_options(args))
+
+
+def _derivation_json(d: Any) -> dict[str, Any]:
+    f = d.formula
+    counts = f.counts()
+    return {
+        "from": str(d.source),
+        "to": str(d.target),
+        "steps": d.steps,
+        "lower_bound": d.lower_bound,
+        "optimal": d.optimal,
+        "method": d.search.method,
+        "sums": list(f.sums),
+        "symbols": {"6j": counts["6j"], "9j": counts["9j"]},
+        "deltas": [list(pair) for pair in f.deltas],
+        "moves": [m.describe() for m in d.moves],
+        "text": str(f),
+    }
+
+
+def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    d = _derive(args, err)
+    f = d.formula
+    if args.json:
+        print(json.dumps(_derivation_json(d), indent=2), file=out)
+        return 0
+    if args.latex:
+        if args.standalone:
+            from recouple.outputs.latex import latex_document
+
+            print(latex_document(f), file=out)
+        else:
+            print(f.latex(), file=out)
+        return 0
+    if args.python:
+        from recouple.outputs.pycode import formula_python
+
+        print(formula_python(f), file=out)
+        return 0
+    print(str(f), file=out)
+    counts = f.counts()
+    proof = "proven shortest" if d.optimal else f"not proven shortest (lower bound {d.lower_bound})"
+    print(
+        f"# {d.steps} Racah move(s), {proof}; {counts['sums']} sum(s), "
+        f"{counts['6j']} 6j, {counts['9j']} 9j",
+        file=out,
+    )
+    if args.moves:
+        for i, move in enumerate(d.moves, 1):
+            print(f"#  {i}. {move.describe()}: {move.before} -> {move.after}", file=out)
+    return 0
+
+
+def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    from recouple.recoupling.evaluate import check_values, evaluate, why_zero
+
+    values = _parse_sets(args.set)
+    d = _derive(args, err)
+    f = d.formula
+    doubled = check_values(f, values)
+    value = evaluate(f, values)
+    reason = why_zero(f, doubled)
+    result: dict[str, Any] = {"value": float(value), "exact": str(value)}
+    if reason:
+        result["zero_because"] = reason
+    if args.check:
+        from recouple.referee.projection import project
+
+        with _progress("projecting onto the product basis", err):
+            reference = project(d.source, d.target, values)
+        difference = abs(float(value) - float(reference))
+        result["projection"] = float(reference)
+        result["difference"] = difference
+        result["agree"] = difference <= 1e-12
+    if args.json:
+        print(json.dumps(result, indent=2), file=out)
+        return 0
+    print(str(f), file=out)
+    print(f"value = {value}  ({float(value):.15g})", file=out)
+    if reason:
+        print(f"# zero: {reason}", file=out)
+    if args.check:
+        verdict = "agree" if result["agree"] else "DISAGREE"
+        print(
+            f"projection = {result['projection']:.15g}; difference {difference:.2e}: {verdict}",
+            file=out,
+        )
+    return 0
+
+
+_SYMBOL_ARITY = {"3j": 6, "cg": 6, "6j": 6, "9j": 9}
+
+
+def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    from recouple.symbols import values as sv
+
+    kind = args.kind.lower()
+    if kind not in _SYMBOL_ARITY:
+        raise BadValue(f"unknown symbol {args.kind!r}: choose 3j, 6j, 9j or cg")
+    need = _SYMBOL_ARITY[kind]
+    if len(args.entries) != need:
+        raise BadValue(f"a {kind} takes {need} entries, got {len(args.entries)}")
+    fn: Callable[..., Any] = {
+        "3j": sv.threej,
+        "cg": sv.clebsch_gordan,
+        "6j": sv.sixj,
+        "9j": sv.ninej,
+    }[kind]
+    value = fn(*args.entries)
+    if args.json:
+        print(
+            json.dumps(
+                {
+                    "symbol": kind,
+                    "entries": args.entries,
+                    "value": float(value),
+                    "exact": str(value),
+                }
+            ),
+            file=out,
+        )
+    else:
+        print(f"{value}  ({float(value):.15g})", file=out)
+    return 0
+
+
+def _add_search_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("source", metavar="FROM", help="the first scheme, e.g. '((a,b)e,c)J'")
+    p.add_argument("target", metavar="TO", help="the second scheme, e.g. '(a,(b,c)f)J'")
+    p.add_argument(
+        "--max-expansions",
+        type=int,
+        metavar="N",
+        help="budget of the exact search in states expanded",
+    )
+    p.add_argument(
+        "--max-seconds", type=float, metavar="S", help="time budget of the exact search in seconds"
+    )
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the whole command line."""
+    parser = _Parser(
+        prog=PROG,
+        description="Exact recoupling coefficients of angular momenta: shortest paths "
+        "of 6j moves between coupling schemes, formulas, values, LaTeX, drawings.",
+        epilog=_EPILOG_MAIN,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    parser.add_argument("--version", action="version", version=f"{PROG} {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+
+    p = sub.add_parser(
+        "derive",
+        help="the formula for the overlap <FROM|TO>",
+        description="Find the shortest path of Racah moves from FROM to TO and print the "
+        "exact formula for the overlap <FROM|TO>.",
+        epilog='example:\n  recouple derive "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --json',
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_search_options(p)
+    fmt = p.add_mutually_exclusive_group()
+    fmt.add_argument("--json", action="store_true", help="print a JSON object")
+    fmt.add_argument("--latex", action="store_true", help="print LaTeX (amsmath)")
+    fmt.add_argument(
+        "--python", action="store_true", help="print a Python function that evaluates the overlap"
+    )
+    p.add_argument(
+        "--standalone",
+        action="store_true",
+        help="with --latex: a complete document that compiles on its own",
+    )
+    p.add_argument("--moves", action="store_true", help="also list every move of the path")
+    p.set_defaults(run=_cmd_derive)
+
+    p = sub.add_parser(
+        "evaluate",
+        help="the exact value of <FROM|TO> at given label values",
+        description="Evaluate the overlap <FROM|TO> exactly at the values given with --set "
+        "(every label of both schemes needs one).",
+        epilog='example:\n  recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 '
+        "--set b=1/2 --set c=1/2 --set e=1 --set f=0 --set J=1/2 --check",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_search_options(p)
+    p.add_argument(
+        "--set",
+        action="append",
+        metavar="NAME=VALUE",
+        help="value of one label, e.g. j1=3/2 (repeat for each label)",
+    )
+    p.add_argument(
+        "--check",
+        action="store_true",
+        help="also compute the overlap by direct Clebsch-Gordan projection",
+    )
+    p.add_argument("--json", action="store_true", help="print a JSON object")
+    p.set_defaults(run=_cmd_evaluate)
+
+    p = sub.add_parser(
+        "symbol",
+        help="the exact value of a 3j, 6j or 9j symbol or a Clebsch-Gordan coefficient",
+        description="Exact value of one symbol. Entries are integers or half-integers "
+        "(3/2 or 1.5). 3j: j1 j2 j3 m1 m2 m3; cg: j1 m1 j2 m2 j m (<j1 m1 j2 m2|j m>); "
+        "6j: six entries row by row; 9j: nine entries row by row.",
+        epilog="examples:\n  recouple symbol 6j 1 2 3 2 1 2\n  recouple symbol cg 1/2 1/2 1/2 -1/2 1 0"
+        "\n  recouple symbol 9j 1/2 1/2 1 1/2 1/2 1 1 1 2 --json",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument("kind", metavar="KIND", help="3j, 6j, 9j or cg")
+    p.add_argument("entries", metavar="ENTRY", nargs="+", help="the entries")
+    p.add_argument("--json", action="store_true", help="print a JSON object")
+    p.set_defaults(run=_cmd_symbol)
+    return parser
+
+
+def main(
+    argv: Sequence[str] | None = None, *, out: TextIO | None = None, err: TextIO | None = None
+) -> int:
+    """Run the command line; returns the exit status."""
+    out = out or sys.stdout
+    err = err or sys.stderr
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if not getattr(args, "command", None):
+            parser.print_help(out)
+            return 0
+        status: int = args.run(args, out, err)
+        return status
+    except _UsageError as exc:
+        print(str(exc), file=err)
+        return 2
+    except RecoupleError as exc:
+        print(f"{PROG}: error: {exc.one_line()}", file=err)
+        return 2
+    except SystemExit as exc:  # --help and --version end here
+        return exc.code if isinstance(exc.code, int) else 0
+    except KeyboardInterrupt:
+        print(f"{PROG}: interrupted", file=err)
+        return 130
+    except Exception as exc:  # noqa: BLE001 - the last line of defence
+        print(
+            f"{PROG}: internal error ({type(exc).__name__}: {exc}). This is a bug in recouple; "
+            "please report it with the command you ran.",
+            file=err,
+        )
+        return 1
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

@@ -1,0 +1,286 @@
+"""From two schemes to a verified formula: check, search, walk the path, simplify.
+
+The data flows once: text -> scheme -> path of cluster sets (search) -> ordered
+moves with their coefficients (this module) -> simplified :class:`Formula`.
+
+>>> d = derive("((a,b)e,(c,d)f)J", "((a,c)g,(b,d)h)J")
+>>> d.steps, d.optimal, d.formula.counts()
+(3, True, {'sums': 0, '6j': 0, '9j': 1})
+"""
+
+from __future__ import annotations
+
+import re
+from collections import Counter
+from dataclasses import dataclass
+
+from recouple.errors import SchemeMismatch
+from recouple.recoupling.formula import Formula, simplify
+from recouple.recoupling.moves import Move, exchange_at, racah_at
+from recouple.recoupling.search import SearchResult, shortest_path
+from recouple.schemes.notation import parse
+from recouple.schemes.tree import Coupling, Node, check_scheme
+
+__all__ = ["Derivation", "as_scheme", "check_pair", "derive"]
+
+# Candidate stems for summation variables; the first whose numbered names clash
+# with no label of either scheme is used, so output is the same from run to run.
+_SUM_STEMS = ("x", "y", "z", "k", "u", "v", "w", "q")
+
+
+@dataclass(frozen=True, slots=True)
+class Derivation:
+    """The result of :func:`derive`: the path of moves and the formula it yields.
+
+    ``path`` holds the trees before and after every move (``len(moves) + 1``
+    trees); ``steps`` counts the Racah moves (6j symbols on the path);
+    ``lower_bound`` and ``optimal`` come from the search.
+    """
+
+    source: Coupling
+    target: Coupling
+    path: tuple[Coupling, ...]
+    moves: tuple[Move, ...]
+    steps: int
+    lower_bound: int
+    optimal: bool
+    search: SearchResult
+    formula: Formula
+
+
+def as_scheme(scheme: Coupling | str) -> Coupling:
+    """A scheme from its text, or a checked scheme as given."""
+    if isinstance(scheme, str):
+        return parse(scheme)
+    if isinstance(scheme, Coupling):
+        return check_scheme(scheme)
+    raise SchemeMismatch(f"expected a scheme or its text, got {type(scheme).__name__}")
+
+
+def check_pair(source: Coupling, target: Coupling) -> None:
+    """Raise :class:`SchemeMismatch` unless the schemes can be compared.
+
+    They must couple the same leaves, and a name used in both must name the same
+    cluster in both.
+
+    >>> from recouple.schemes import parse
+    >>> check_pair(parse("((a,b)e,c)J"), parse("((a,c)e,b)J"))
+    Traceback (most recent call last):
+    ...
+    recouple.errors.SchemeMismatch: label 'e' names (a,b) in the first scheme but (a,c) in the second
+    """
+    a_leaves, b_leaves = set(source.leaves()), set(target.leaves())
+    if a_leaves != b_leaves:
+        only_a = ", ".join(sorted(a_leaves - b_leaves)) or "none"
+        only_b = ", ".join(sorted(b_leaves - a_leaves)) or "none"
+        raise SchemeMismatch(
+            "the schemes couple different angular momenta: "
+            f"only in the first: {only_a}; only in the second: {only_b}"
+        )
+    order = {leaf: i for i, leaf in enumerate(source.leaves())}
+
+    def show(cluster: frozenset[str]) -> str:
+        return "(" + ",".join(sorted(cluster, key=order.__getitem__)) + ")"
+
+    a_named = {label: cluster for cluster, label in source.clusters().items()}
+    for cluster, label in target.clusters().items():
+        if label in a_named and a_named[label] != cluster:
+            raise SchemeMismatch(
+                f"label {label!r} names {show(a_named[label])} in the first scheme "
+                f"but {show(cluster)} in the second"
+            )
+        if label in a_leaves:
+            raise SchemeMismatch(
+                f"{label!r} is a leaf of the first scheme but a label in the second"
+            )
+
+
+def derive(
+    source: Coupling | str,
+    target: Coupling | str,
+    *,
+    max_expansions: int | None = None,
+    max_seconds: float | None = None,
+) -> Derivation:
+    """Find the cheapest path of moves from ``source`` to ``target`` and its formula.
+
+    The formula is for the overlap ``<source|target>``; both schemes may be given
+    as text.  ``max_expansions`` and ``max_seconds`` bound the exact search (the
+    defaults are the search's own); past them a heuristic path is used and
+    ``optimal`` is False.
+
+    >>> d = derive("((a,b)e,c)J", "(a,(b,c)f)J")
+    >>> d.steps, [m.kind for m in d.moves]
+    (1, ['racah'])
+    """
+    a, b = as_scheme(source), as_scheme(target)
+    check_pair(a, b)
+    leaves = a.leaves()
+    bit = {leaf: 1 << i for i, leaf in enumerate(leaves)}
+
+    def mask(cluster: frozenset[str]) -> int:
+        return sum(bit[leaf] for leaf in cluster)
+
+    full = (1 << len(leaves)) - 1
+    a_masks = frozenset(m for m in map(mask, a.clusters()) if m != full)
+    b_named = {mask(c): label for c, label in b.clusters().items()}
+    b_masks = frozenset(m for m in b_named if m != full)
+    options = {}
+    if max_expansions is not None:
+        options["max_expansions"] = max_expansions
+    if max_seconds is not None:
+        options["max_seconds"] = max_seconds
+    result = shortest_path(a_masks, b_masks, len(leaves), **options)  # type: ignore[arg-type]
+
+    walk = _Walk(a, b, bit, b_named, result)
+    return Derivation(
+        source=a,
+        target=b,
+        path=tuple(walk.trees),
+        moves=tuple(walk.moves),
+        steps=result.steps,
+        lower_bound=result.lower_bound,
+        optimal=result.optimal,
+        search=result,
+        formula=simplify(walk.formula()),
+    )
+
+
+def _node_masks(tree: Coupling, bit: dict[str, int]) -> dict[int, Node]:
+    """Every node of ``tree`` by the bitmask of its leaves."""
+    out: dict[int, Node] = {}
+    for node in tree.nodes():
+        out[sum(bit[leaf] for leaf in node.leaves())] = node
+    return out
+
+
+def _parent_of(tree: Coupling, label: str) -> Coupling:
+    for node in tree.couplings():
+        if label in (node.left.label, node.right.label):
+            return node
+    raise AssertionError(f"{label!r} has no parent")  # the search only moves non-root clusters
+
+
+class _Walk:
+    """Turn the search's sequence of cluster sets into ordered moves on real trees."""
+
+    def __init__(
+        self,
+        a: Coupling,
+        b: Coupling,
+        bit: dict[str, int],
+        b_named: dict[int, str],
+        result: SearchResult,
+    ) -> None:
+        self.a, self.b, self.bit = a, b, bit
+        self.trees: list[Coupling] = [a]
+        self.moves: list[Move] = []
+        self.sums: list[str] = []
+        self.sum_clusters: dict[str, frozenset[str]] = {}
+        stem = _sum_stem(set(a.labels()) | set(b.labels()))
+        path = result.path
+        steps = [
+            (next(iter(path[i] - path[i + 1])), next(iter(path[i + 1] - path[i])))
+            for i in range(len(path) - 1)
+        ]
+        for i, (removed, added) in enumerate(steps):
+            # A cluster keeps the target's name only if it survives to the end;
+            # anything created and destroyed later is summed over.
+            survives = all(later_removed != added for later_removed, _ in steps[i + 1 :])
+            if added in b_named and survives:
+                label = b_named[added]
+            else:
+                label = f"{stem}{len(self.sums) + 1}"
+                self.sums.append(label)
+            self._racah(removed, added, label)
+            if label in self.sums:
+                self.sum_clusters[label] = frozenset(self._node(added).leaves())
+        self._order_like(b)
+        self.deltas: list[tuple[str, str]] = []
+        here = {mask: node.label for mask, node in _node_masks(self.trees[-1], bit).items()}
+        there = {mask: node.label for mask, node in _node_masks(b, bit).items()}
+        for mask, label in there.items():
+            if here[mask] != label:
+                self.deltas.append((here[mask], label))
+
+    @property
+    def current(self) -> Coupling:
+        return self.trees[-1]
+
+    def _node(self, mask: int) -> Node:
+        return _node_masks(self.current, self.bit)[mask]
+
+    def _mask(self, node: Node) -> int:
+        return sum(self.bit[leaf] for leaf in node.leaves())
+
+    def _apply(self, move: Move) -> None:
+        self.moves.append(move)
+        self.trees.append(move.after)
+
+    def _racah(self, removed: int, added: int, label: str) -> None:
+        node = self._node(removed)
+        assert isinstance(node, Coupling)
+        parent = _parent_of(self.current, node.label)
+        # Bring the parent to ((X Y)e, Z)f with Y the part that joins Z.
+        if parent.left.label != node.label:
+            self._apply(exchange_at(self.current, parent.label))
+        node = self._node(removed)
+        assert isinstance(node, Coupling)
+        if self._mask(node.left) & added:  # the first part must be X, the one left behind
+            self._apply(exchange_at(self.current, node.label))
+        parent = _parent_of(self.current, node.label)
+        self._apply(racah_at(self.current, parent.label, new_label=label))
+
+    def _order_like(self, b: Coupling) -> None:
+        """Exchange parts until every coupling has its parts in the target's order."""
+        for target_node in b.couplings():
+            mask = self._mask(target_node)
+            node = self._node(mask)
+            assert isinstance(node, Coupling)
+            if self._mask(node.left) != self._mask(target_node.left):
+                self._apply(exchange_at(self.current, node.label))
+
+    def formula(self) -> Formula:
+        """The raw product of the move coefficients, before simplification."""
+        phase: Counter[str] = Counter()
+        hats: Counter[str] = Counter()
+        sixjs = []
+        for move in self.moves:
+            coefficient = move.coefficient()
+            for label, c in coefficient.phase:
+                phase[label] += c
+            hats.update(coefficient.hats)
+            sixjs.extend(coefficient.sixjs)
+        clusters: dict[str, frozenset[str]] = {leaf: frozenset((leaf,)) for leaf in self.a.leaves()}
+        for scheme in (self.a, self.b):
+            for cluster, label in scheme.clusters().items():
+                clusters[label] = cluster
+        clusters.update(self.sum_clusters)
+        order = list(self.a.labels())
+        order += [label for label in self.b.labels() if label not in order]
+        order += self.sums
+        return Formula(
+            bra=self.a,
+            ket=self.b,
+            sums=tuple(self.sums),
+            phase=tuple(phase.items()),
+            constant=0,
+            hats=tuple(hats.items()),
+            sixjs=tuple(sixjs),
+            ninejs=(),
+            deltas=tuple(self.deltas),
+            clusters=tuple(clusters.items()),
+            order=tuple(order),
+        )
+
+
+def _sum_stem(taken: set[str]) -> str:
+    """A stem s such that no label of either scheme looks like s1, s2, ..."""
+    for stem in _SUM_STEMS:
+        pattern = re.compile(re.escape(stem) + r"\d+")
+        if not any(pattern.fullmatch(label) for label in taken):
+            return stem
+    stem = "x_"
+    while any(label.startswith(stem) for label in taken):
+        stem += "_"
+    return stem
