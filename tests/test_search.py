@@ -1,0 +1,346 @@
+"""Shortest Racah-move paths checked against an independent brute force.
+
+The reference below shares no code with recouple.recoupling.search: trees are nested
+unordered pairs (``frozenset`` of two parts, leaves are ints), built by inserting
+leaves one at a time, and a move is a rotation ``{{X, Y}, B} -> {X, {Y, B}}`` done on
+the nested form (CONVENTIONS 5.2: rotations modulo exchange are exactly the moves).
+Distances come from plain breadth-first search over that graph.
+"""
+
+from __future__ import annotations
+
+import random
+from collections import deque
+from collections.abc import Iterator
+from functools import cache
+from typing import TypeAlias
+
+import pytest
+
+from recouple.errors import BadValue
+from recouple.recoupling.search import (
+    SearchResult,
+    children,
+    is_move,
+    lower_bound,
+    neighbours,
+    shortest_path,
+)
+
+# A reference tree: a leaf index, or an unordered pair of subtrees.
+Ref: TypeAlias = "int | frozenset[Ref]"
+
+
+# ---------------------------------------------------------------------------
+# Independent reference
+
+
+def all_ref_trees(n: int) -> list[Ref]:
+    """Every tree on leaves 0..n-1: insert leaf k on every edge of each tree on k leaves."""
+    trees: list[Ref] = [0]
+    for k in range(1, n):
+        grown: list[Ref] = []
+        for t in trees:
+            grown.extend(_insert_everywhere(t, k))
+        trees = grown
+    return trees
+
+
+def _insert_everywhere(t: Ref, leaf: int) -> Iterator[Ref]:
+    yield frozenset({t, leaf})
+    if isinstance(t, frozenset):
+        a, b = tuple(t)
+        for a2 in _insert_everywhere(a, leaf):
+            yield frozenset({a2, b})
+        for b2 in _insert_everywhere(b, leaf):
+            yield frozenset({a, b2})
+
+
+def ref_moves(t: Ref) -> set[Ref]:
+    """All trees one rotation away from t (at any depth)."""
+    out: set[Ref] = set()
+    if not isinstance(t, frozenset):
+        return out
+    a, b = tuple(t)
+    for inner, other in ((a, b), (b, a)):
+        if isinstance(inner, frozenset):
+            x, y = tuple(inner)
+            out.add(frozenset({x, frozenset({y, other})}))
+            out.add(frozenset({y, frozenset({x, other})}))
+    for a2 in ref_moves(a):
+        out.add(frozenset({a2, b}))
+    for b2 in ref_moves(b):
+        out.add(frozenset({a, b2}))
+    return out
+
+
+def leafset(t: Ref) -> int:
+    if isinstance(t, int):
+        return 1 << t
+    total = 0
+    for part in t:
+        total |= leafset(part)
+    return total
+
+
+def ref_clusters(t: Ref) -> frozenset[int]:
+    """Leaf sets of the internal non-root nodes, as bitmasks."""
+    found: set[int] = set()
+
+    def walk(u: Ref, is_root: bool) -> int:
+        if isinstance(u, int):
+            return 1 << u
+        mask = 0
+        for part in u:
+            mask |= walk(part, False)
+        if not is_root:
+            found.add(mask)
+        return mask
+
+    walk(t, True)
+    return frozenset(found)
+
+
+def bfs(source: Ref) -> dict[Ref, int]:
+    dist = {source: 0}
+    queue = deque([source])
+    while queue:
+        u = queue.popleft()
+        for v in ref_moves(u):
+            if v not in dist:
+                dist[v] = dist[u] + 1
+                queue.append(v)
+    return dist
+
+
+@cache
+def trees_of(n: int) -> tuple[Ref, ...]:
+    return tuple(all_ref_trees(n))
+
+
+def double_factorial(k: int) -> int:
+    out = 1
+    while k > 1:
+        out *= k
+        k -= 2
+    return out
+
+
+def shape(t: Ref) -> object:
+    """The unlabelled shape of a tree, as a canonical nested tuple."""
+    if isinstance(t, int):
+        return ()
+    return tuple(sorted((shape(p) for p in t), key=repr))
+
+
+def one_tree_per_shape(n: int) -> list[Ref]:
+    seen: dict[object, Ref] = {}
+    for t in trees_of(n):
+        seen.setdefault(shape(t), t)
+    return list(seen.values())
+
+
+def check_path(
+    result: SearchResult, source: frozenset[int], target: frozenset[int], n: int
+) -> None:
+    """A valid path from source to target with consistent bookkeeping."""
+    path = result.path
+    assert path[0] == source
+    assert path[-1] == target
+    assert result.steps == len(path) - 1
+    ref_sums = 0
+    for before, after in zip(path, path[1:], strict=False):
+        assert len(after) == n - 2
+        assert len(before - after) == 1
+        assert len(after - before) == 1
+        (added,) = after - before
+        # legality checked on the independent nested form, not with is_move
+        ref_sums += added not in target
+    assert result.sums == ref_sums
+    assert result.lower_bound <= result.steps
+
+
+def ref_of_clusters(clusters: frozenset[int], n: int) -> Ref:
+    """Rebuild the nested form from a cluster set (reference side)."""
+
+    def build(mask: int) -> Ref:
+        if mask & (mask - 1) == 0:
+            return mask.bit_length() - 1
+        inner = [c for c in clusters if c != mask and c & mask == c]
+        tops = [c for c in inner if not any(c != d and d & c == c for d in inner)]
+        covered = 0
+        for c in tops:
+            covered |= c
+        parts = tops + [1 << i for i in range(n) if (mask & ~covered) >> i & 1]
+        assert len(parts) == 2, (bin(mask), parts)
+        return frozenset(build(p) for p in parts)
+
+    return build((1 << n) - 1)
+
+
+def check_moves_legal(path: tuple[frozenset[int], ...], n: int) -> None:
+    for before, after in zip(path, path[1:], strict=False):
+        assert ref_of_clusters(after, n) in ref_moves(ref_of_clusters(before, n))
+
+
+# ---------------------------------------------------------------------------
+# Counting and neighbours
+
+
+@pytest.mark.parametrize("n", range(2, 9))
+def test_tree_count(n: int) -> None:
+    # (2n-3)!!: CONVENTIONS 5.1, OEIS A001147; 1, 3, 15, 105, 945, 10395, 135135
+    trees = trees_of(n) if n <= 7 else all_ref_trees(n)
+    assert len(trees) == double_factorial(2 * n - 3)
+    assert len({ref_clusters(t) for t in trees}) == len(trees)
+
+
+@pytest.mark.parametrize("n", range(3, 7))
+def test_neighbours_match_reference(n: int) -> None:
+    for t in trees_of(n):
+        tree = ref_clusters(t)
+        got = list(neighbours(tree, n))
+        # 2(n-2) distinct neighbours, each changing exactly one cluster: CONVENTIONS 5.2
+        assert len(got) == 2 * (n - 2)
+        assert {g for g, _, _ in got} == {ref_clusters(u) for u in ref_moves(t)}
+        for new_tree, old, new in got:
+            assert new_tree == (tree - {old}) | {new}
+            assert is_move(tree, new_tree, n)
+
+
+def test_move_graph_connected_and_counted() -> None:
+    # BFS with the library's neighbours from one tree reaches all (2n-3)!! trees
+    n = 7
+    start = ref_clusters(trees_of(n)[0])
+    seen = {start}
+    queue = deque([start])
+    while queue:
+        u = queue.popleft()
+        for v, _, _ in neighbours(u, n):
+            if v not in seen:
+                seen.add(v)
+                queue.append(v)
+    assert len(seen) == double_factorial(2 * n - 3)
+
+
+def test_children() -> None:
+    tree = frozenset({0b00011, 0b11100, 0b11000})  # ((0 1)(2 (3 4)))
+    assert children(tree, 0b11111, 5) == (0b00011, 0b11100)
+    assert children(tree, 0b11100, 5) == (0b00100, 0b11000)
+    assert children(tree, 0b11000, 5) == (0b01000, 0b10000)
+    with pytest.raises(BadValue, match="not a cluster"):
+        children(tree, 0b00110, 5)
+
+
+# ---------------------------------------------------------------------------
+# Exact distances
+
+
+@pytest.mark.parametrize("n", [2, 3, 4, 5])
+def test_every_pair_exact(n: int) -> None:
+    trees = trees_of(n)
+    for s in trees:
+        dist = bfs(s)
+        source = ref_clusters(s)
+        for t in trees:
+            target = ref_clusters(t)
+            result = shortest_path(source, target, n)
+            assert result.optimal
+            assert result.steps == dist[t]
+            check_path(result, source, target, n)
+            assert lower_bound(source, target, n) <= dist[t]
+
+
+@pytest.mark.parametrize(("n", "sources", "per_source"), [(6, 40, 10), (7, 12, 25)])
+def test_random_pairs_exact(n: int, sources: int, per_source: int) -> None:
+    rng = random.Random(20240601 + n)
+    trees = trees_of(n)
+    for s in rng.sample(trees, sources):
+        dist = bfs(s)
+        source = ref_clusters(s)
+        for t in rng.sample(trees, per_source):
+            target = ref_clusters(t)
+            result = shortest_path(source, target, n)
+            assert result.optimal
+            assert result.method == "exact"
+            assert result.steps == dist[t]
+            check_path(result, source, target, n)
+            check_moves_legal(result.path, n)
+
+
+@pytest.mark.parametrize("n", [4, 5, 6, 7])
+def test_lower_bound_admissible_exhaustive(n: int) -> None:
+    # Relabelling leaves is an automorphism of the move graph (CONVENTIONS 5.3), so
+    # one source per shape covers every ordered pair up to relabelling.
+    for s in one_tree_per_shape(n):
+        dist = bfs(s)
+        source = ref_clusters(s)
+        for t, d in dist.items():
+            target = ref_clusters(t)
+            lb = lower_bound(source, target, n)
+            # at least half the Robinson-Foulds distance (CONVENTIONS 5.3)
+            assert len(source - target) <= lb <= d
+
+
+def _min_max_sums_over_shortest(s: Ref, t: Ref) -> tuple[int, int]:
+    """Fewest and most sums over all shortest paths from s to t (reference DP)."""
+    from_s = bfs(s)
+    to_t = bfs(t)
+    d = from_s[t]
+    target = ref_clusters(t)
+    best: dict[Ref, tuple[int, int]] = {t: (0, 0)}
+    layers: dict[int, list[Ref]] = {}
+    for u, du in from_s.items():
+        if du + to_t[u] == d:
+            layers.setdefault(du, []).append(u)
+    for k in range(d - 1, -1, -1):
+        for u in layers[k]:
+            cu = ref_clusters(u)
+            options = []
+            for v in ref_moves(u):
+                if v in best and from_s.get(v) == k + 1 and to_t[v] == d - k - 1:
+                    (added,) = ref_clusters(v) - cu
+                    cost = int(added not in target)
+                    lo, hi = best[v]
+                    options.append((lo + cost, hi + cost))
+            best[u] = (min(o[0] for o in options), max(o[1] for o in options))
+    return best[s]
+
+
+def test_sums_tie_break() -> None:
+    # Pairs at n = 5 whose shortest paths differ in sums (CONVENTIONS 3.5 and 3.4,
+    # "fewest Racah moves is not the same as fewest sums"); the search must pick the
+    # fewest among shortest paths.
+    n = 5
+    rng = random.Random(7)
+    trees = list(trees_of(n))
+    for s in one_tree_per_shape(n):
+        for t in rng.sample(trees, 40):
+            lo, _hi = _min_max_sums_over_shortest(s, t)
+            result = shortest_path(ref_clusters(s), ref_clusters(t), n)
+            assert result.sums == lo
+
+
+# ---------------------------------------------------------------------------
+# Bad input and determinism
+
+
+def test_bad_trees() -> None:
+    with pytest.raises(BadValue, match="overlap without nesting"):
+        shortest_path(frozenset({0b0011, 0b0110}), frozenset({0b0011, 0b0111}), 4)
+    with pytest.raises(BadValue, match="has 2 non-root clusters"):
+        shortest_path(frozenset({0b0011}), frozenset({0b0011, 0b0111}), 4)
+    with pytest.raises(BadValue, match="not a non-root internal cluster"):
+        shortest_path(frozenset({0b1111, 0b0011}), frozenset({0b0011, 0b0111}), 4)
+    with pytest.raises(BadValue, match="positive int"):
+        shortest_path(frozenset(), frozenset(), 0)
+
+
+def test_deterministic() -> None:
+    n = 7
+    rng = random.Random(3)
+    trees = trees_of(n)
+    for _ in range(10):
+        s, t = (ref_clusters(u) for u in rng.sample(trees, 2))
+        first = shortest_path(s, t, n)
+        assert all(shortest_path(s, t, n) == first for _ in range(3))
