@@ -15,6 +15,17 @@ from recouple.symbols.canonical import (
     sixj_arrangements,
     sixj_triads,
 )
+from recouple.symbols.floats import (
+    FLOAT_SAFE_DOUBLED,
+    cg_float,
+    cg_float_doubled,
+    ninej_float,
+    ninej_float_doubled,
+    sixj_float,
+    sixj_float_doubled,
+    threej_float,
+    threej_float_doubled,
+)
 from recouple.symbols.values import (
     cg_doubled,
     clebsch_gordan,
@@ -27,6 +38,15 @@ from recouple.symbols.values import (
 )
 
 __all__ = [
+    "FLOAT_SAFE_DOUBLED",
+    "cg_float",
+    "cg_float_doubled",
+    "ninej_float",
+    "ninej_float_doubled",
+    "sixj_float",
+    "sixj_float_doubled",
+    "threej_float",
+    "threej_float_doubled",
     "canonical_ninej",
     "canonical_sixj",
     "cg_doubled",
