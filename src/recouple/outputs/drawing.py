@@ -479,21 +479,23 @@ def _place(ax: Axes, drawn: _Drawn, left: float, bottom: float) -> None:
 
 
 def _fit_into(ax: Axes, drawn: _Drawn) -> None:
-    """Fit a drawing into an axes the caller sized: shrink the scales if it is too small."""
+    """Fit a drawing into an axes the caller sized: shrink the scales if it is too small.
+
+    Centred across; resting on the bottom, so trees in neighbouring axes share a
+    baseline for their leaves (the lowest ink is a leaf name, a fixed offset below
+    data y = 0 whatever the scale).
+    """
     fw, fh = _figure_of(ax).get_size_inches()
     pos = ax.get_position()
     w, h = pos.width * fw, pos.height * fh
     sx = drawn.sx * min(1.0, max(0.05, (w - 2 * _PAD) / max(drawn.width - 2 * _PAD, 1e-9)))
     sy = drawn.sy * min(1.0, max(0.05, (h - 2 * _PAD) / max(drawn.height - 2 * _PAD, 1e-9)))
     xs = [s.x for s in drawn.spots]
-    ys = [s.level for s in drawn.spots]
-    # Centre the nodes; the text margins keep their size in inches.
     cx = (min(xs) + max(xs)) / 2
-    cy = (min(ys) + max(ys)) / 2
     mid_x = (drawn.x0 + drawn.x1) / 2 - cx * drawn.sx  # text imbalance, inches
-    mid_y = (drawn.y0 + drawn.y1) / 2 - cy * drawn.sy
     ax.set_xlim(cx + (mid_x - w / 2) / sx, cx + (mid_x + w / 2) / sx)
-    ax.set_ylim(cy + (mid_y - h / 2) / sy, cy + (mid_y + h / 2) / sy)
+    low = drawn.y0 - _PAD
+    ax.set_ylim(low / sy, (low + h) / sy)
 
 
 def _new_figure() -> Figure:
@@ -664,9 +666,9 @@ def draw_path(
     from matplotlib.patches import FancyArrowPatch
 
     top = fig_h - head - _PAD
-    for row, width, b, a in zip(rows, widths, below, above, strict=True):
+    for row, b, a in zip(rows, below, above, strict=True):
         base = top - a  # inches from the figure's bottom to data y = 0 of this row
-        x = _PAD + (fig_w - 2 * _PAD - width) / 2
+        x = _PAD  # rows start at the left margin and read like lines of text
         for i in row:
             ax, d = drawn[i]
             if i:
