@@ -26,7 +26,7 @@ from recouple.recoupling.formula import Formula
 from recouple.symbols.floats import ninej_float_doubled, sixj_float_doubled
 from recouple.symbols.values import ninej_doubled, sixj_doubled
 
-__all__ = ["check_values", "evaluate", "evaluate_float", "why_zero"]
+__all__ = ["check_values", "evaluate", "evaluate_doubled", "evaluate_float", "why_zero"]
 
 
 def check_values(formula: Formula, values: Mapping[str, object]) -> dict[str, int]:
@@ -74,6 +74,11 @@ def evaluate(formula: Formula, values: Mapping[str, object]) -> Radical:
     doubled = check_values(formula, values)
     if why_zero(formula, doubled) is not None:
         return Radical(0)
+    return evaluate_doubled(formula, doubled)
+
+
+def evaluate_doubled(formula: Formula, doubled: Mapping[str, int]) -> Radical:
+    """The exact value at checked doubled values (2j) that satisfy every triad."""
     total = Radical(0)
     for assignment in _assignments(formula, doubled):
         total = total + _term_exact(formula, assignment)

@@ -1,0 +1,154 @@
+"""Whole transformation matrices between two coupling schemes.
+
+For fixed leaf values (and optionally a fixed total), every allowed basis state
+of a scheme is one assignment of its coupling labels.  The matrix holds
+``<row state of FROM | column state of TO>``; it is real orthogonal (common
+practice: both bases are orthonormal bases of the same space), which
+:attr:`TransformationMatrix.orthogonality_error` measures.
+
+>>> m = transformation_matrix("((a,b)e,c)J", "(a,(b,c)f)J", {"a": "1/2", "b": "1/2", "c": "1/2"})
+>>> len(m.rows), m.orthogonal
+(4, True)
+>>> [str(x) for x in m.exact[0]]
+['1', '0', '0', '0']
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+from recouple.errors import BadValue
+from recouple.numbers.radicals import Radical
+from recouple.numbers.spins import coupled_range, to_doubled
+from recouple.recoupling.derive import Derivation, as_scheme, derive
+from recouple.recoupling.evaluate import evaluate_doubled, why_zero
+from recouple.schemes.tree import Coupling
+
+__all__ = ["MAX_STATES", "TransformationMatrix", "basis_states", "transformation_matrix"]
+
+#: The largest basis a matrix may have; a larger request is refused up front.
+MAX_STATES = 5000
+
+
+@dataclass(frozen=True, slots=True)
+class TransformationMatrix:
+    """Overlaps of every basis state of ``source`` with every one of ``target``.
+
+    ``rows`` and ``columns`` give, for each state, the doubled value (2j) of each
+    coupling label; ``exact`` holds the entries.
+    """
+
+    source: Coupling
+    target: Coupling
+    leaves: tuple[tuple[str, int], ...]
+    rows: tuple[tuple[tuple[str, int], ...], ...]
+    columns: tuple[tuple[tuple[str, int], ...], ...]
+    exact: tuple[tuple[Radical, ...], ...]
+    derivation: Derivation
+
+    def floats(self) -> list[list[float]]:
+        """The entries as floats."""
+        return [[float(x) for x in row] for row in self.exact]
+
+    @property
+    def orthogonality_error(self) -> float:
+        """max |(M M^T - 1)_ij|, computed in floats."""
+        m = self.floats()
+        worst = 0.0
+        for i, ri in enumerate(m):
+            for j, rj in enumerate(m):
+                dot = math.fsum(x * y for x, y in zip(ri, rj, strict=True))
+                worst = max(worst, abs(dot - (1.0 if i == j else 0.0)))
+        return worst
+
+    @property
+    def orthogonal(self) -> bool:
+        """True when M M^T = 1 to 1e-12."""
+        return len(self.rows) == len(self.columns) and self.orthogonality_error <= 1e-12
+
+
+def basis_states(
+    scheme: Coupling, leaves: Mapping[str, int], total: int | None = None
+) -> list[dict[str, int]]:
+    """Every allowed assignment (doubled values) of the coupling labels of ``scheme``.
+
+    >>> from recouple.schemes import parse
+    >>> basis_states(parse("((a,b)e,c)J"), {"a": 1, "b": 1, "c": 1})
+    [{'e': 0, 'J': 1}, {'e': 2, 'J': 1}, {'e': 2, 'J': 3}]
+    """
+    states: list[dict[str, int]] = [{}]
+    for node in scheme.couplings():  # children before parents
+        grown: list[dict[str, int]] = []
+        for state in states:
+            known = {**leaves, **state}
+            options = coupled_range(known[node.left.label], known[node.right.label])
+            for value in options:
+                if node is scheme and total is not None and value != total:
+                    continue
+                grown.append({**state, node.label: value})
+                if len(grown) > MAX_STATES:
+                    raise BadValue(
+                        f"the basis of {str(scheme)!r} has more than {MAX_STATES} states; "
+                        "fix the total or use smaller values"
+                    )
+        states = grown
+    return states
+
+
+def transformation_matrix(
+    source: Coupling | str,
+    target: Coupling | str,
+    values: Mapping[str, object],
+) -> TransformationMatrix:
+    """The matrix ``<FROM state|TO state>`` for the leaf values (and total) in ``values``.
+
+    ``values`` gives every leaf and, optionally, the total (under either scheme's
+    name for it); without a total, all totals are included and the matrix is
+    block diagonal in the total.
+    """
+    d = derive(source, target)
+    a, b = d.source, d.target
+    leaf_names = a.leaves()
+    allowed = set(leaf_names) | {a.total, b.total}
+    for name in values:
+        if name not in allowed:
+            raise BadValue(
+                f"{name!r} cannot be set for a matrix: give the leaves "
+                f"({', '.join(leaf_names)}) and optionally the total {a.total!r}"
+            )
+    missing = [leaf for leaf in leaf_names if leaf not in values]
+    if missing:
+        raise BadValue(f"no value given for leaf {', '.join(repr(m) for m in missing)}")
+    leaves = {leaf: to_doubled(values[leaf], name=leaf) for leaf in leaf_names}
+    totals = {to_doubled(values[k], name=k) for k in (a.total, b.total) if k in values}
+    if len(totals) > 1:
+        raise BadValue(f"{a.total!r} and {b.total!r} are given different values")
+    total = totals.pop() if totals else None
+    rows = basis_states(a, leaves, total)
+    cols = basis_states(b, leaves, total)
+    f = d.formula
+    shared = [k for k in a.internal_labels() if k in set(b.internal_labels())]
+    exact: list[tuple[Radical, ...]] = []
+    for r in rows:
+        line: list[Radical] = []
+        for c in cols:
+            if r[a.total] != c[b.total] or any(r[k] != c[k] for k in shared):
+                line.append(Radical(0))  # a shared cluster with two values: orthogonal
+                continue
+            doubled = {**leaves, **r, **c}
+            if why_zero(f, doubled) is not None:
+                line.append(Radical(0))
+            else:
+                line.append(evaluate_doubled(f, doubled))
+        exact.append(tuple(line))
+    return TransformationMatrix(
+        source=a,
+        target=b,
+        leaves=tuple(leaves.items()),
+        rows=tuple(tuple(r.items()) for r in rows),
+        columns=tuple(tuple(c.items()) for c in cols),
+        exact=tuple(exact),
+        derivation=d,
+    )
