@@ -11,10 +11,11 @@ the values its triangles allow, ``Max(|p - q|, ...) <= x <= Min(p + q, ...)``,
 one ``|p - q|`` and one ``p + q`` for every triad ``(x, p, q)`` of its symbols
 whose other two labels are free labels or belong to enclosing sums (DLMF
 34.2.1); the sums are nested in the order :mod:`recouple.recoupling.evaluate`
-uses (see :func:`recouple.outputs.pycode.sum_order`).  sympy follows Karr's
-convention for reversed limits (a sum from ``lo`` to ``hi < lo - 1`` is *not*
-zero), so every sum is wrapped as
-``Piecewise((Sum(...), lo <= hi), (0, True))``: an empty range gives exactly 0.
+uses (see :func:`recouple.outputs.pycode.sum_order`).  When that range is
+empty, sympy's reversed-limit convention (Karr's) turns ``Sum(t, (x, lo, hi))``
+with ``hi < lo`` into ``-Sum(t, (x, hi + 1, lo - 1))``; every ``x`` there lies
+outside one of the bounding triads, so a symbol in each term is 0 and the sum
+is 0, as it should be.
 
 The expression equals the overlap for label values that satisfy the triangle
 conditions of both schemes; outside them the overlap is zero by definition and
@@ -76,7 +77,7 @@ def formula_to_sympy(formula: Formula) -> Any:
     for x, triads in reversed(sum_order(formula)):
         lo = sympy.Max(*[sympy.Abs(sym[p] - sym[q]) for p, q in triads])
         hi = sympy.Min(*[sym[p] + sym[q] for p, q in triads])
-        term = sympy.Piecewise((sympy.Sum(term, (sym[x], lo, hi)), lo <= hi), (0, True))
+        term = sympy.Sum(term, (sym[x], lo, hi))
 
     for a, b in formula.deltas:
         term = sympy.KroneckerDelta(sym[a], sym[b]) * term
@@ -107,13 +108,6 @@ def sympy_doit(expr: Any) -> Any:
                     f"the limits of {e} are not numbers: give every free label a value"
                 )
             return expand(e.doit(deep=False))
-        if isinstance(e, sympy.Piecewise):
-            for branch, condition in e.args:
-                if condition is sympy.true:
-                    return expand(branch)
-                if condition is not sympy.false:
-                    raise ValueError(f"cannot decide {condition} in {e}: a label has no value")
-            return sympy.Integer(0)
         if not e.args or not isinstance(e, sympy.Basic):
             return e
         return e.func(*[expand(a) for a in e.args])
