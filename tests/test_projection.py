@@ -143,7 +143,7 @@ def test_norm_is_one_exhaustive() -> None:
                 continue
             assert exactly(project(text, text, values, exact=True), 1), (text, values)
             count += 1
-    assert count > 300
+    assert count == 502
 
 
 def test_norm_four_leaves_all_m() -> None:
@@ -157,7 +157,7 @@ def test_norm_four_leaves_all_m() -> None:
                 for big_m in ms(big_j):
                     assert exactly(project(scheme, scheme, values, m=big_m), 1)
                     count += 1
-    assert count > 500
+    assert count == 625
 
 
 def test_overlap_independent_of_m_and_symmetric() -> None:
@@ -174,7 +174,7 @@ def test_overlap_independent_of_m_and_symmetric() -> None:
                 assert project(a, b, v, exact=True, m=big_m) == at_top
                 assert project(b, a, v, exact=True, m=big_m) == at_top
                 count += 1
-    assert count > 1000
+    assert count == 1688
 
 
 # ---------------------------------------------------------------------------
@@ -293,7 +293,7 @@ def test_completeness_three_leaves() -> None:
                 total = total + overlap * overlap
         assert total == Radical(1), values
         count += 1
-    assert count > 200
+    assert count == 251
 
 
 def test_completeness_four_leaves() -> None:
@@ -312,7 +312,7 @@ def test_completeness_four_leaves() -> None:
                         total = total + x * x
                 assert total == Radical(1), v
                 count += 1
-    assert count > 20
+    assert count == 45
 
 
 # ---------------------------------------------------------------------------
@@ -337,19 +337,19 @@ def test_exact_and_float_agree() -> None:
             assert type(approx) is float
             assert math.isclose(float(exact), approx, abs_tol=1e-12)
             count += 1
-    assert count > 60
+    assert count == 86
 
 
 def test_default_mode_switches_on_dimension() -> None:
     small = {"a": 1, "b": 1, "c": 1, "e": 1, "J": 1}  # dimension 27
     assert isinstance(project("((a,b)e,c)J", "(a,(b,c)e)J", small), Radical)
-    big = {"a": 4, "b": 4, "c": 4, "d": 4, "e": 4, "f": 4, "J": 4}  # 9^4 = 6561 > EXACT_LIMIT
-    assert EXACT_LIMIT < 9**4
-    assert type(project("((a,b)e,(c,d)f)J", "((a,c)e,(b,d)f)J", big)) is float
+    big = {k: 4 for k in ("a", "b", "c", "d", "p", "e", "f", "J", "J2")}  # 9^5 = 59049 states
+    assert EXACT_LIMIT < 9**5
+    assert type(project("(((a,b)e,(c,d)f)J,p)J2", "(((a,c)e,(b,d)f)J,p)J2", big)) is float
 
 
 def test_seven_spins_three_halves_float() -> None:
-    # Product dimension 4^7 = 16384, so the default is the float path.  The two
+    # Product dimension 4^7 = 16384, on the float path and the exact one.  The two
     # schemes differ in one cluster: ((X j6)x6, j7)J against ((X j7)y, j6)J with
     # X = the first five momenta coupled to x5.  Each overlap is CONVENTIONS 3.1'
     # (-1)^(j6+j7+x6+y) sqrt((2x6+1)(2y+1)) {x5 j6 x6; J j7 y}, and the squares sum to 1
@@ -366,8 +366,11 @@ def test_seven_spins_three_halves_float() -> None:
     for y in coupled(x5, j):
         if big_j not in coupled(y, j):
             continue
-        got = project(a, b, {**values, "y": y})
+        got = project(a, b, {**values, "y": y}, exact=False)
         assert type(got) is float
+        exact = project(a, b, {**values, "y": y}, exact=True)
+        assert isinstance(exact, Radical)
+        assert math.isclose(float(exact), got, rel_tol=1e-12)
         six = wigner.wigner_6j(sp(x5), sp(j), sp(x6), sp(big_j), sp(j), sp(y))
         ref = sign(j + j + x6 + y) * sympy.sqrt((2 * x6 + 1) * (2 * y + 1)) * six
         assert close(got, ref), y

@@ -58,7 +58,7 @@ __all__ = [
 
 #: With ``exact=None``, :func:`project` works exactly when the product space of
 #: the momenta has at most this many states, and in floating point above.
-EXACT_LIMIT = 4096
+EXACT_LIMIT = 16384  # 7 spins 3/2; exact takes about 0.05 s there, floats 0.01 s
 
 #: The largest product-space dimension the referee accepts (about two million
 #: states).  Time and memory grow with it; beyond this the referee refuses with
