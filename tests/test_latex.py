@@ -276,3 +276,14 @@ def test_document_with_deltas_primes_and_underscores_compiles(tmp_path: Path) ->
     assert f.deltas
     log = _compile(tmp_path, latex_document(f, title="Primes & deltas"))
     assert "Overfull \\hbox" not in log
+
+
+def test_short_bra_ket_long_product_compiles(tmp_path: Path) -> None:
+    # a short left-hand side keeps its place: lhs &= ... \\ &\quad \times ...
+    six = ("a", "b", "e", "c", "J", "f")
+    f = make_formula(*SIXJ, hats=(("e", 1), ("f", 1)), sixjs=(six,) * 9)
+    doc = latex_document(f)
+    assert r"\rangle &= " in doc
+    assert doc.count(r"\\ &\quad \times") >= 2
+    log = _compile(tmp_path, doc)
+    assert "Overfull \\hbox" not in log
