@@ -17,7 +17,7 @@ from scheme_factory import all_trees, random_tree, random_values
 
 from recouple import BadValue, SchemeMismatch
 from recouple.recoupling.derive import derive
-from recouple.recoupling.evaluate import evaluate, evaluate_float, why_zero, check_values
+from recouple.recoupling.evaluate import check_values, evaluate, evaluate_float, why_zero
 from recouple.referee.projection import project
 
 HALVES = [Fraction(k, 2) for k in range(1, 4)]  # 1/2, 1, 3/2
@@ -207,11 +207,12 @@ def test_triangle_violation_is_exact_zero_with_a_reason() -> None:
 def test_summation_names_never_collide() -> None:
     # The user already uses x1 and y1: the summation variable gets another stem.
     a = "((((j1,j2)x1,j3)y1,j4)k,j5)J"
-    b = "((j1,j5)p,((j2,j4)q,j3)r)J"
+    b = "(((j1,j4)p,(j2,j5)q)r,j3)J"
     d = derive(a, b)
     labels = set(d.source.labels()) | set(d.target.labels())
     assert d.formula.sums
     assert not labels & set(d.formula.sums)
+    assert d.formula.sums == ("z1",)
 
 
 # --- bad input ----------------------------------------------------------------------

@@ -31,6 +31,7 @@ FLOORS: dict[str, int] = {
     "referee": 4,
     "recoupling": 4,
     "outputs": 5,
+    "verification": 5,
     "cli": 6,
     "__init__": 6,
     "__main__": 6,

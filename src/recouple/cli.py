@@ -188,12 +188,13 @@ def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     need = _SYMBOL_ARITY[kind]
     if len(args.entries) != need:
         raise BadValue(f"a {kind} takes {need} entries, got {len(args.entries)}")
-    fn: Callable[..., Any] = {
+    functions: dict[str, Callable[..., Any]] = {
         "3j": sv.threej,
         "cg": sv.clebsch_gordan,
         "6j": sv.sixj,
         "9j": sv.ninej,
-    }[kind]
+    }
+    fn = functions[kind]
     value = fn(*args.entries)
     if args.json:
         print(
@@ -291,7 +292,8 @@ def build_parser() -> argparse.ArgumentParser:
         description="Exact value of one symbol. Entries are integers or half-integers "
         "(3/2 or 1.5). 3j: j1 j2 j3 m1 m2 m3; cg: j1 m1 j2 m2 j m (<j1 m1 j2 m2|j m>); "
         "6j: six entries row by row; 9j: nine entries row by row.",
-        epilog="examples:\n  recouple symbol 6j 1 2 3 2 1 2\n  recouple symbol cg 1/2 1/2 1/2 -1/2 1 0"
+        epilog="examples:\n  recouple symbol 6j 1 2 3 2 1 2"
+        "\n  recouple symbol cg 1/2 1/2 1/2 -1/2 1 0"
         "\n  recouple symbol 9j 1/2 1/2 1 1/2 1/2 1 1 1 2 --json",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )

@@ -47,8 +47,8 @@ def factor_texts(formula: Formula) -> list[str]:
     out += [f"(2{label}+1)" for label in whole]
     if under:
         out.append("sqrt(" + "".join(f"(2{label}+1)" for label in under) + ")")
-    out += ["{%s %s %s; %s %s %s}" % s for s in formula.sixjs]
-    out += ["{%s %s %s; %s %s %s; %s %s %s}" % n for n in formula.ninejs]
+    out += ["{{{} {} {}; {} {} {}}}".format(*s) for s in formula.sixjs]
+    out += ["{{{} {} {}; {} {} {}; {} {} {}}}".format(*n) for n in formula.ninejs]
     return out
 
 

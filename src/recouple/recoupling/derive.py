@@ -67,7 +67,7 @@ def check_pair(source: Coupling, target: Coupling) -> None:
     >>> check_pair(parse("((a,b)e,c)J"), parse("((a,c)e,b)J"))
     Traceback (most recent call last):
     ...
-    recouple.errors.SchemeMismatch: label 'e' names (a,b) in the first scheme but (a,c) in the second
+    recouple.errors.SchemeMismatch: label 'e' names (a,b) in the first scheme, (a,c) in the second
     """
     a_leaves, b_leaves = set(source.leaves()), set(target.leaves())
     if a_leaves != b_leaves:
@@ -86,8 +86,8 @@ def check_pair(source: Coupling, target: Coupling) -> None:
     for cluster, label in target.clusters().items():
         if label in a_named and a_named[label] != cluster:
             raise SchemeMismatch(
-                f"label {label!r} names {show(a_named[label])} in the first scheme "
-                f"but {show(cluster)} in the second"
+                f"label {label!r} names {show(a_named[label])} in the first scheme, "
+                f"{show(cluster)} in the second"
             )
         if label in a_leaves:
             raise SchemeMismatch(
@@ -125,7 +125,7 @@ def derive(
     a_masks = frozenset(m for m in map(mask, a.clusters()) if m != full)
     b_named = {mask(c): label for c, label in b.clusters().items()}
     b_masks = frozenset(m for m in b_named if m != full)
-    options = {}
+    options: dict[str, float] = {}
     if max_expansions is not None:
         options["max_expansions"] = max_expansions
     if max_seconds is not None:
@@ -244,7 +244,7 @@ class _Walk:
         """The raw product of the move coefficients, before simplification."""
         phase: Counter[str] = Counter()
         hats: Counter[str] = Counter()
-        sixjs = []
+        sixjs: list[tuple[str, str, str, str, str, str]] = []
         for move in self.moves:
             coefficient = move.coefficient()
             for label, c in coefficient.phase:

@@ -10,7 +10,7 @@ symbols allow (DLMF 34.2.1 and the triads listed in DLMF §34.4 and §34.6).
 >>> f = derive("((a,b)e,c)J", "(a,(b,c)f)J").formula
 >>> v = {"a": "1/2", "b": "1/2", "c": "1/2", "e": 1, "f": 0, "J": "1/2"}
 >>> print(evaluate(f, v))
--sqrt(3)/2
+(1/2)*sqrt(3)
 """
 
 from __future__ import annotations
@@ -170,7 +170,7 @@ def _fill(
     for value in allowed:
         known[x] = value
         yield from _fill(rest, known, triads)
-    del known[x]
+    known.pop(x, None)
 
 
 def _intersect(ranges: list[range]) -> Iterator[int]:

@@ -75,7 +75,9 @@ class Formula:
     @property
     def free_labels(self) -> tuple[str, ...]:
         """Labels a value must be given for: every label of both schemes."""
-        return tuple(label for label in self.order if label not in self.sums)
+        labels = list(self.bra.labels())
+        labels += [label for label in self.ket.labels() if label not in labels]
+        return tuple(labels)
 
     def triads(self) -> tuple[tuple[str, str, str], ...]:
         """The coupling triads of both schemes; a value set breaking one gives zero."""
@@ -268,6 +270,7 @@ def _fold_ninej(f: Formula, x: str) -> Formula | None:
         return replace(
             f,
             sums=tuple(s for s in f.sums if s != x),
+            order=tuple(label for label in f.order if label != x),
             phase=tuple(reduced.items()),
             constant=constant,
             hats=tuple(hats.items()),

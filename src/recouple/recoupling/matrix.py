@@ -8,9 +8,9 @@ practice: both bases are orthonormal bases of the same space), which
 
 >>> m = transformation_matrix("((a,b)e,c)J", "(a,(b,c)f)J", {"a": "1/2", "b": "1/2", "c": "1/2"})
 >>> len(m.rows), m.orthogonal
-(4, True)
+(3, True)
 >>> [str(x) for x in m.exact[0]]
-['1', '0', '0', '0']
+['-1/2', '(1/2)*sqrt(3)', '0']
 """
 
 from __future__ import annotations
@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from recouple.errors import BadValue
 from recouple.numbers.radicals import Radical
 from recouple.numbers.spins import coupled_range, to_doubled
-from recouple.recoupling.derive import Derivation, as_scheme, derive
+from recouple.recoupling.derive import Derivation, derive
 from recouple.recoupling.evaluate import evaluate_doubled, why_zero
 from recouple.schemes.tree import Coupling
 

@@ -15,7 +15,7 @@ through their labels x, y, z.
 
 >>> from recouple.schemes import parse
 >>> before = parse("((a,b)e,c)J")
->>> move = racah_at(before, "e", new_label="g")
+>>> move = racah_at(before, "J", new_label="g")
 >>> str(move.after)
 '(a,(b,c)g)J'
 >>> move.coefficient().sixjs
