@@ -158,6 +158,8 @@ def parse(text: str) -> Coupling:
             while j > i + 1 and j < n and text[j] == "'":
                 j += 1
             label = text[i + 1 : j]
+            if not label and j < n and text[j] not in " \t\r\n,()'":
+                raise fail(_bad_char(text[j]), j)  # e.g. a non-ASCII letter where the label goes
             if not label:
                 raise fail("missing label after ')'", i)
             if not is_name(label):
