@@ -18,12 +18,14 @@ at a non-root node ``C = X | Y`` whose parent is ``P = C | Z`` it replaces ``C``
 from __future__ import annotations
 
 import heapq
+import random
 import time
+from bisect import bisect_left
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass
 from itertools import count
 
-from recouple.errors import BadValue
+from recouple.errors import BadValue, BudgetExceeded
 
 __all__ = [
     "DEFAULT_MAX_EXPANSIONS",
@@ -43,9 +45,12 @@ __all__ = [
 EXACT_MAX_LEAVES = 24
 
 #: Default cap on the states the exact search expands.  Every expansion stores up to
-#: 2(n-2) packed successor keys (one ``int`` of about n(n-2) bits each), so at n = 16
-#: this keeps the open and closed sets below roughly 300 MB.
-DEFAULT_MAX_EXPANSIONS = 100_000
+#: 2(n-2) successors (packed key, heap entry, two dict entries: about 400 bytes
+#: each), so at n = 16 this keeps the open and closed sets below about 250 MB.
+DEFAULT_MAX_EXPANSIONS = 20_000
+
+# Expansions of the first, unpruned exact try (before any heuristic runs).
+_QUICK = 300
 
 #: Default wall-clock budget of the exact search, in seconds.
 DEFAULT_MAX_SECONDS = 5.0
@@ -76,8 +81,10 @@ class SearchResult:
     ``"heuristic"`` (n above :data:`EXACT_MAX_LEAVES`, or the heuristic already met
     the lower bound) or ``"heuristic (exact search out of budget)"``.  ``expanded``,
     ``peak_open`` and ``peak_closed`` describe the exact search (zero when it did not
-    run).  ``sums`` counts moves whose new cluster is not a cluster of the target:
-    each introduces one summed label in the formula (CONVENTIONS 3.5).
+    run).  ``"exact (heuristic meets the bound)"`` marks a heuristic path of exactly
+    ``|C(source) - C(target)|`` moves: no path is shorter and it has no sums.
+    ``sums`` counts moves whose new cluster is not a cluster of the target: each
+    introduces one summed label in the formula (CONVENTIONS 3.5).
     """
 
     path: tuple[frozenset[int], ...]
@@ -285,7 +292,11 @@ def _sums_of(path: tuple[frozenset[int], ...], target: frozenset[int]) -> int:
 
 
 class _OutOfBudget(Exception):
-    pass
+    """The exact search ran out of budget; ``bound`` is a proven lower bound on moves."""
+
+    def __init__(self, bound: int) -> None:
+        super().__init__(bound)
+        self.bound = bound
 
 
 @dataclass(slots=True)
@@ -304,23 +315,29 @@ def _astar(
     upper: int | None,
     stats: _Stats,
 ) -> tuple[frozenset[int], ...] | None:
-    """A* over packed keys; cost (moves, sums) as one int; consistent bound 2a - nu.
+    """A* on the lexicographic cost (moves, sums), packed as ``moves * _MOVE + sums``.
 
-    Returns None when every path is longer than ``upper`` moves (pruned), raises
-    _OutOfBudget when a budget runs out.
+    States are packed keys: the sorted clusters, n bits each, in one int.  The bound
+    ``2a - nu`` is consistent (one move changes ``a`` by at most one and, when it
+    removes a crossing pair, lowers ``nu`` by at least one), so a state is final
+    when first expanded.  A successor's bound is first estimated as its parent's
+    minus one and computed only when it reaches the top of the heap.  Paths of more
+    than ``upper`` moves are pruned; None means no path within ``upper``.
+    Raises :class:`_OutOfBudget` with the smallest open f, a proven lower bound.
     """
     m = max(n - 2, 0)
     width = n
     fmask = (1 << width) - 1
+    shifts = [width * k for k in range(m)]
 
     def pack(cl: list[int]) -> int:
         key = 0
-        for k, c in enumerate(cl):
-            key |= c << (width * k)
+        for sh, c in zip(shifts, cl, strict=False):
+            key |= c << sh
         return key
 
     def unpack(key: int) -> list[int]:
-        return [(key >> (width * k)) & fmask for k in range(m)]
+        return [(key >> sh) & fmask for sh in shifts]
 
     start = pack(sorted(source))
     goal = pack(sorted(target))
@@ -333,59 +350,277 @@ def _astar(
         new = [c for c in tgt_list if c not in have]
         return 2 * len(gone) - _max_matching(gone, new)
 
+    limit = None if upper is None else (upper + 1) * _MOVE  # prune f >= limit
     counter = count()
     best_g: dict[int, int] = {start: 0}
     came: dict[int, int] = {}
     closed: set[int] = set()
     h0 = h(unpack(start))
+    if limit is not None and h0 * _MOVE >= limit:
+        return None
     heap: list[tuple[int, int, int, int, int, bool]] = [
         (h0 * _MOVE, 0, next(counter), start, 0, True)
     ]
+    push = heapq.heappush
+    pop = heapq.heappop
     while heap:
-        f, _neg_moves, _, key, g, exact = heapq.heappop(heap)
-        if key in closed or g > best_g.get(key, g):
+        f, neg_moves, _, key, g, exact = pop(heap)
+        if key in closed or g > best_g[key]:
             continue
         cl = unpack(key)
         if not exact:
-            hv = h(cl)
-            f2 = g + hv * _MOVE
+            f2 = g + h(cl) * _MOVE
             if f2 > f:
-                heapq.heappush(heap, (f2, _neg_moves, next(counter), key, g, True))
+                if limit is None or f2 < limit:
+                    push(heap, (f2, neg_moves, next(counter), key, g, True))
                 continue
         if key == goal:
             path = [key]
             while path[-1] != start:
                 path.append(came[path[-1]])
             return tuple(frozenset(unpack(k)) for k in reversed(path))
-        if max_expansions is not None and stats.expanded >= max_expansions:
-            raise _OutOfBudget
-        if deadline is not None and stats.expanded % 64 == 0 and time.monotonic() > deadline:
-            raise _OutOfBudget
+        if (max_expansions is not None and stats.expanded >= max_expansions) or (
+            deadline is not None and stats.expanded % 32 == 0 and time.monotonic() > deadline
+        ):
+            raise _OutOfBudget(f // _MOVE)
         closed.add(key)
         stats.expanded += 1
-        stats.peak_closed = max(stats.peak_closed, len(closed))
-        hv = (f - g) // _MOVE
+        stats.peak_closed = len(closed)
+        # the successors' bound is at least this one minus one (consistency)
+        est = f - g - _MOVE if f - g >= _MOVE else 0
         struct = _structure(cl, n)
-        for c in cl:
+        for i, c in enumerate(cl):
             p, x, y = struct[c]
             z = p & ~c
+            rest = cl[:i] + cl[i + 1 :]
             for new in (x | z, y | z):
-                g2 = g + _MOVE + (0 if new in tgt else 1)
-                moves2 = g2 // _MOVE
-                if upper is not None and moves2 + max(hv - 1, 0) > upper:
+                g2 = g + (_MOVE if new in tgt else _MOVE + 1)
+                f2 = g2 + est
+                if limit is not None and f2 >= limit:
                     continue
-                nl = [d for d in cl if d != c]
-                nl.append(new)
-                nl.sort()
-                k2 = pack(nl)
+                j = bisect_left(rest, new)
+                k2 = pack(rest[:j] + [new] + rest[j:])
                 if k2 in closed or best_g.get(k2, g2 + 1) <= g2:
                     continue
                 best_g[k2] = g2
                 came[k2] = key
-                est = max(hv - 1, 0)
-                heapq.heappush(heap, (g2 + est * _MOVE, -moves2, next(counter), k2, g2, False))
-        stats.peak_open = max(stats.peak_open, len(heap))
+                push(heap, (f2, neg_moves - 1, next(counter), k2, g2, False))
+        if len(heap) > stats.peak_open:
+            stats.peak_open = len(heap)
     return None
+
+
+# ---------------------------------------------------------------------------
+# Constructive heuristic
+
+
+class _Work:
+    """A mutable tree (parent and children of every node) for the constructive heuristic.
+
+    Nodes are bitmasks: leaves ``1 << i``, internal clusters, and the root.
+    """
+
+    __slots__ = ("kids", "moves", "n", "parent", "root", "target", "tkids")
+
+    def __init__(self, tree: frozenset[int], target: frozenset[int], n: int) -> None:
+        self.n = n
+        self.root = (1 << n) - 1
+        self.target = target
+        self.parent: dict[int, int] = {}
+        self.kids: dict[int, tuple[int, int]] = {}
+        for c, (p, x, y) in _structure(tree, n).items():
+            self.parent[c] = p
+            self.kids[c] = (x, y)
+        self.kids[self.root] = children(tree, self.root, n)
+        for c, (x, y) in list(self.kids.items()):
+            self.parent[x] = c
+            self.parent[y] = c
+        tk = {c: (x, y) for c, (p, x, y) in _structure(target, n).items()}
+        tk[self.root] = children(target, self.root, n)
+        self.tkids = tk
+        self.moves: list[tuple[int, int]] = []
+
+    def apply(self, c: int, new: int) -> None:
+        p = self.parent[c]
+        x, y = self.kids[c]
+        a, b = self.kids[p]
+        z = b if a == c else a
+        if new == x | z:
+            keep, stay = x, y
+        else:
+            keep, stay = y, x
+        del self.kids[c]
+        del self.parent[c]
+        self.kids[new] = (keep, z)
+        self.parent[keep] = new
+        self.parent[z] = new
+        self.parent[new] = p
+        self.kids[p] = (new, stay)
+        self.parent[stay] = p
+        self.moves.append((c, new))
+
+    def undo(self) -> None:
+        c, new = self.moves.pop()
+        p = self.parent[new]
+        keep, z = self.kids[new]
+        a, b = self.kids[p]
+        stay = b if a == new else a
+        del self.kids[new]
+        del self.parent[new]
+        self.kids[c] = (keep, stay)
+        self.parent[keep] = c
+        self.parent[stay] = c
+        self.parent[c] = p
+        self.kids[p] = (c, z)
+        self.parent[z] = p
+
+    def perfect_moves(self) -> list[tuple[int, int]]:
+        """Moves that remove a non-target cluster and create a target cluster."""
+        out = []
+        tgt = self.target
+        root = self.root
+        for c, (x, y) in self.kids.items():
+            if c == root or c in tgt:
+                continue
+            p = self.parent[c]
+            a, b = self.kids[p]
+            z = b if a == c else a
+            if x | z in tgt:
+                out.append((c, x | z))
+            elif y | z in tgt:
+                out.append((c, y | z))
+        return out
+
+    def join_path(self, d: int) -> list[int]:
+        """Internal nodes strictly between the two target parts of ``d``, LCA excluded."""
+        d1, d2 = self.tkids[d]
+        up1 = [d1]
+        while up1[-1] != self.root:
+            up1.append(self.parent[up1[-1]])
+        on1 = set(up1)
+        up2 = [d2]
+        while up2[-1] not in on1:
+            up2.append(self.parent[up2[-1]])
+        lca = up2[-1]
+        return up1[1 : up1.index(lca)] + up2[1:-1]
+
+
+def _heuristic_run(
+    source: frozenset[int], target: frozenset[int], n: int, rng_seed: int
+) -> list[tuple[int, int]]:
+    """One greedy construction of the target, bottom-up; returns the moves."""
+    rng = random.Random(rng_seed)
+    lookahead = n <= 40
+    w = _Work(source, target, n)
+    while True:
+        perfect = w.perfect_moves()
+        if perfect:
+            if rng_seed and len(perfect) > 1:
+                c, new = perfect[rng.randrange(len(perfect))]
+            else:
+                c, new = min(perfect)
+            w.apply(c, new)
+            continue
+        # Target clusters whose two target parts are both present, not yet formed.
+        ready = [
+            d
+            for d, (d1, d2) in w.tkids.items()
+            if d != w.root and d not in w.kids and d1 in w.parent and d2 in w.parent
+        ]
+        if not ready:  # every target cluster is formed: the tree is the target
+            break
+        # The target part pair closest together in the current tree goes first.
+        lengths = {d: w.join_path(d) for d in ready}
+        d = min(ready, key=lambda e: (len(lengths[e]), rng.random() if rng_seed else e))
+        best: tuple[tuple[int, float], int, int] | None = None
+        d1, d2 = w.tkids[d]
+        for u in lengths[d]:
+            x, y = w.kids[u]
+            # u holds exactly one of d1, d2; its other part leaves the path
+            off = y if (x & d1 == d1 or x & d2 == d2) else x
+            p = w.parent[u]
+            a, b = w.kids[p]
+            z = b if a == u else a
+            new = off | z
+            gain = 0
+            if lookahead:  # how many target clusters become one move away
+                w.apply(u, new)
+                gain = len(w.perfect_moves())
+                w.undo()
+            score = (-gain, rng.random() if rng_seed else 0.0)
+            if best is None or score < best[0]:
+                best = (score, u, new)
+        assert best is not None
+        _, u, new = best
+        w.apply(u, new)
+        if len(w.moves) > 4 * n * n:  # cannot happen: every move removes a non-target cluster
+            raise BudgetExceeded(f"heuristic: no path after {len(w.moves)} moves (n={n})")
+    return w.moves
+
+
+def _trees_of(source: frozenset[int], moves: list[tuple[int, int]]) -> list[frozenset[int]]:
+    trees = [source]
+    for c, new in moves:
+        trees.append((trees[-1] - {c}) | {new})
+    return trees
+
+
+def _shorten(trees: list[frozenset[int]], n: int, deadline: float) -> list[frozenset[int]]:
+    """Local improvement: cut cycles, then replace windows of the path by exact shortcuts.
+
+    Each window ``trees[i] .. trees[i + w]`` is searched exactly for a path of at
+    most ``w - 1`` moves with a small budget; a hit is spliced in and the scan
+    restarts.  Stops at ``deadline``.
+    """
+    trees = _cut_cycles(trees)
+    widths = (3, 4, 5, 6, 7, 8)
+    improved = True
+    while improved and time.monotonic() < deadline:
+        improved = False
+        for w in widths:
+            i = 0
+            while i + w < len(trees):
+                if time.monotonic() > deadline:
+                    return trees
+                try:
+                    sub = _astar(trees[i], trees[i + w], n, 300, None, w - 1, _Stats())
+                except _OutOfBudget:
+                    sub = None
+                if sub is not None:
+                    trees = _cut_cycles(trees[:i] + list(sub) + trees[i + w + 1 :])
+                    improved = True
+                i += 1
+    return trees
+
+
+def _cut_cycles(trees: list[frozenset[int]]) -> list[frozenset[int]]:
+    """Drop the stretch between two visits of the same tree."""
+    last = {t: i for i, t in enumerate(trees)}
+    out: list[frozenset[int]] = []
+    i = 0
+    while i < len(trees):
+        out.append(trees[i])
+        i = last[trees[i]] + 1
+    return out
+
+
+def _heuristic(
+    source: frozenset[int], target: frozenset[int], n: int, deadline: float
+) -> list[frozenset[int]]:
+    """Best of a few greedy constructions, then local improvement (small n only)."""
+    runs = 8 if n <= 24 else 4 if n <= 40 else 1
+    best: list[tuple[int, int]] | None = None
+    for seed in range(runs):
+        moves = _heuristic_run(source, target, n, seed)
+        if best is None or len(moves) < len(best):
+            best = moves
+        if seed and time.monotonic() > deadline:
+            break
+    assert best is not None
+    trees = _trees_of(source, best)
+    if n <= EXACT_MAX_LEAVES:
+        trees = _shorten(trees, n, deadline)
+    return trees
 
 
 def shortest_path(
@@ -400,7 +635,7 @@ def shortest_path(
 
     Exact A* with the bound of :func:`lower_bound` for ``n <= EXACT_MAX_LEAVES``
     (24), within ``max_expansions`` expanded states (default
-    :data:`DEFAULT_MAX_EXPANSIONS` = 100 000, a few hundred MB at most at n = 16)
+    :data:`DEFAULT_MAX_EXPANSIONS` = 20 000, about 250 MB at most at n = 16)
     and ``max_seconds`` (default :data:`DEFAULT_MAX_SECONDS` = 5 s); ``None`` lifts
     a budget.  The result is deterministic.
 
@@ -416,17 +651,52 @@ def shortest_path(
         max_expansions = DEFAULT_MAX_EXPANSIONS
     if isinstance(max_seconds, _Default):
         max_seconds = DEFAULT_MAX_SECONDS
+    start = time.monotonic()
     lb = lower_bound(source, target, n)
+    deadline = None if max_seconds is None else start + max_seconds
     stats = _Stats()
-    deadline = None if max_seconds is None else time.monotonic() + max_seconds
-    path = _astar(source, target, n, max_expansions, deadline, None, stats)
-    assert path is not None
+    path: tuple[frozenset[int], ...] | None = None
+    optimal = False
+    method = "heuristic"
+    if n <= EXACT_MAX_LEAVES:
+        # Most small cases finish at once; a short unbounded try avoids the heuristic.
+        quick = _QUICK if max_expansions is None else min(_QUICK, max_expansions)
+        try:
+            path = _astar(source, target, n, quick, deadline, None, stats)
+            optimal, method = True, "exact"
+        except _OutOfBudget as out:
+            lb = max(lb, out.bound)
+    if path is not None:
+        heuristic_path = list(path)
+    else:
+        budget = DEFAULT_MAX_SECONDS if max_seconds is None else max_seconds
+        heuristic_path = _heuristic(source, target, n, start + 0.25 * budget)
+    ub = len(heuristic_path) - 1
+    if path is None and ub == lb == len(source - target):
+        # meets the bound with no summed label: optimal for (moves, sums)
+        path, optimal, method = tuple(heuristic_path), True, "exact (heuristic meets the bound)"
+    if path is None and n <= EXACT_MAX_LEAVES:
+        rest = None if max_expansions is None else max(max_expansions - stats.expanded, 0)
+        stats2 = _Stats()
+        try:
+            path = _astar(source, target, n, rest, deadline, ub, stats2)
+            optimal, method = True, "exact"
+        except _OutOfBudget as out:
+            lb = max(lb, min(out.bound, ub))
+            method = "heuristic (exact search out of budget)"
+        stats = _Stats(
+            stats.expanded + stats2.expanded,
+            max(stats.peak_open, stats2.peak_open),
+            max(stats.peak_closed, stats2.peak_closed),
+        )
+    if path is None:
+        path = tuple(heuristic_path)
     return SearchResult(
         path=path,
         steps=len(path) - 1,
-        lower_bound=lb,
-        optimal=True,
-        method="exact",
+        lower_bound=lb if not optimal else len(path) - 1,
+        optimal=optimal,
+        method=method,
         expanded=stats.expanded,
         peak_open=stats.peak_open,
         peak_closed=stats.peak_closed,
