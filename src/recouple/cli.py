@@ -10,9 +10,11 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+import textwrap
 import threading
 from collections.abc import Callable, Iterator, Sequence
-from contextlib import contextmanager
+from contextlib import contextmanager, redirect_stdout
+from pathlib import Path
 from typing import Any, NoReturn, TextIO
 
 from recouple import __version__
@@ -28,11 +30,24 @@ examples:
   recouple derive "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --latex
   recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 --set b=1/2 --set c=1/2 \\
       --set e=1 --set f=0 --set J=1/2 --check
+  recouple matrix "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --set l1=1 --set l2=2 \\
+      --set s1=1/2 --set s2=1/2 --set J=2
+  recouple draw "((a,b)e,c)J" "(a,(b,c)f)J" --path -o path.svg
   recouple symbol 6j 1 2 3 2 1 2
 
+Every command takes --json for output that other programs read, and --help for
+its options and examples. Exit status: 0 done, 2 bad input (one line on stderr),
+1 internal error.
+
 Conventions: Condon-Shortley phases; (a,b)c couples a first (a fills the first slot
-of the Clebsch-Gordan coefficient). See docs/conventions.md.
+of the Clebsch-Gordan coefficient). Results hold in these conventions only: check a
+few numbers against your own code before you rely on them (docs/conventions.md).
 """
+
+
+def _wrap(text: str) -> str:
+    """A help paragraph wrapped for an 80-column terminal."""
+    return textwrap.fill(text, 78)
 
 
 class _Parser(argparse.ArgumentParser):
@@ -213,6 +228,106 @@ def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     return 0
 
 
+def _write_file(path: str, write: Callable[[Path], object]) -> Path:
+    """Run ``write`` on ``path``; a file that cannot be written is bad input, not a bug."""
+    target = Path(path)
+    try:
+        write(target)
+    except OSError as exc:
+        reason = exc.strerror or type(exc).__name__
+        raise BadValue(f"cannot write {path!r}: {reason}") from None
+    return target
+
+
+def _cmd_matrix(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    from recouple.numbers.spins import spin_text
+    from recouple.outputs.table import matrix_csv, matrix_json, matrix_text
+    from recouple.recoupling.matrix import transformation_matrix
+
+    if args.csv == "-" and args.json:
+        raise BadValue("--csv - and --json both write to stdout: give --csv a file name")
+    values = _parse_sets(args.set)
+    with _progress("building the transformation matrix", err):
+        m = transformation_matrix(args.source, args.target, values)
+    if not m.rows:
+        total = m.source.total if m.source.total in values else m.target.total
+        raise BadValue(
+            f"no basis state has {total}={values[total]}: it cannot be reached from "
+            + ", ".join(f"{k}={spin_text(v)}" for k, v in m.leaves)
+        )
+    exact = not args.float_only
+    if args.csv == "-":
+        print(matrix_csv(m, exact=exact), file=out, end="")
+        return 0
+    if args.csv is not None:
+        text = matrix_csv(m, exact=exact)
+        _write_file(args.csv, lambda p: p.write_text(text, encoding="utf-8"))
+    if args.json:
+        data = matrix_json(m, exact=exact)
+        if args.csv is not None:
+            data["csv"] = args.csv
+        print(json.dumps(data, indent=2), file=out)
+        return 0
+    leaves = ", ".join(f"{k}={spin_text(v)}" for k, v in m.leaves)
+    print(f"<{m.source}|{m.target}> at {leaves}", file=out)
+    print(str(m.derivation.formula), file=out)
+    print(f"rows: states of {m.source}; columns: states of {m.target}", file=out)
+    print("", file=out)
+    print(matrix_text(m, exact=exact), file=out)
+    print("", file=out)
+    error = m.orthogonality_error
+    verdict = "orthogonal to 1e-12" if m.orthogonal else "NOT orthogonal to 1e-12"
+    print(
+        f"{len(m.rows)} x {len(m.columns)}; max |M M^T - 1| = {error:.1e}: {verdict}",
+        file=out,
+    )
+    if args.csv is not None:
+        print(f"CSV written to {args.csv}", file=out)
+    return 0
+
+
+def _cmd_draw(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    from recouple.outputs.drawing import FORMATS, draw_path, draw_tree, save_figure
+    from recouple.schemes.notation import parse
+
+    if args.output is None:
+        raise BadValue("give an output file with -o, e.g. -o tree.svg (.png, .svg or .pdf)")
+    ext = Path(args.output).suffix.lower()
+    if ext not in FORMATS:
+        shown = repr(ext) if ext else "a file without an extension"
+        raise BadValue(f"cannot draw into {shown} ({args.output!r}); use .png, .svg or .pdf")
+    if args.path and args.target is None:
+        raise BadValue("--path needs two schemes: draw FROM TO --path -o FILE")
+    if not args.path and args.target is not None:
+        raise BadValue(
+            "two schemes given: add --path to draw the path from the first to the second, "
+            "or give one scheme to draw one tree"
+        )
+    moves: list[str] = []
+    if args.path:
+        d = _derive(args, err)
+        moves = [m.describe() for m in d.moves]
+        trees = list(d.path)
+        with _progress("drawing the path", err):
+            fig = draw_path(trees, moves, title=args.title)
+    else:
+        trees = [parse(args.source)]
+        fig = draw_tree(trees[0], title=args.title)
+    written = _write_file(args.output, lambda p: save_figure(fig, p))
+    if args.json:
+        result = {
+            "file": str(written),
+            "format": ext[1:],
+            "trees": [str(t) for t in trees],
+            "moves": moves,
+        }
+        print(json.dumps(result), file=out)
+    else:
+        what = f"a path of {len(moves)} move(s)" if args.path else "one tree"
+        print(f"wrote {written} ({what})", file=out)
+    return 0
+
+
 def _add_search_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("source", metavar="FROM", help="the first scheme, e.g. '((a,b)e,c)J'")
     p.add_argument("target", metavar="TO", help="the second scheme, e.g. '(a,(b,c)f)J'")
@@ -231,8 +346,10 @@ def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the whole command line."""
     parser = _Parser(
         prog=PROG,
-        description="Exact recoupling coefficients of angular momenta: shortest paths "
-        "of 6j moves between coupling schemes, formulas, values, LaTeX, drawings.",
+        description=_wrap(
+            "Exact recoupling coefficients of angular momenta: shortest paths "
+            "of 6j moves between coupling schemes, formulas, values, LaTeX, drawings."
+        ),
         epilog=_EPILOG_MAIN,
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
@@ -242,8 +359,10 @@ def build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser(
         "derive",
         help="the formula for the overlap <FROM|TO>",
-        description="Find the shortest path of Racah moves from FROM to TO and print the "
-        "exact formula for the overlap <FROM|TO>.",
+        description=_wrap(
+            "Find the shortest path of Racah moves from FROM to TO and print the "
+            "exact formula for the overlap <FROM|TO>."
+        ),
         epilog='example:\n  recouple derive "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --json',
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
@@ -265,8 +384,10 @@ def build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser(
         "evaluate",
         help="the exact value of <FROM|TO> at given label values",
-        description="Evaluate the overlap <FROM|TO> exactly at the values given with --set "
-        "(every label of both schemes needs one).",
+        description=_wrap(
+            "Evaluate the overlap <FROM|TO> exactly at the values given with --set "
+            "(every label of both schemes needs one)."
+        ),
         epilog='example:\n  recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 '
         "--set b=1/2 --set c=1/2 --set e=1 --set f=0 --set J=1/2 --check",
         formatter_class=argparse.RawDescriptionHelpFormatter,
@@ -287,11 +408,92 @@ def build_parser() -> argparse.ArgumentParser:
     p.set_defaults(run=_cmd_evaluate)
 
     p = sub.add_parser(
+        "matrix",
+        help="the whole transformation matrix between two schemes",
+        description=_wrap(
+            "Enumerate every basis state of FROM and of TO for the leaf values "
+            "given with --set, and print the matrix of overlaps <FROM state|TO state>: one "
+            "block per total, rows and columns named by their coupling labels, exact entries "
+            "and floats, and the orthogonality check max |M M^T - 1|. Give every leaf a value; "
+            "give the total too (under either scheme's name) to keep one block only."
+        ),
+        epilog="examples:\n"
+        '  recouple matrix "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 --set b=1/2 --set c=1/2\n'
+        '  recouple matrix "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" \\\n'
+        "      --set l1=1 --set l2=2 --set s1=1/2 --set s2=1/2 --set J=2\n"
+        '  recouple matrix "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1 --set b=1 --set c=1 '
+        "--csv m.csv --float-only\n"
+        '  recouple matrix "(a,b)J" "(b,a)J" --set a=1/2 --set b=1/2 --json\n'
+        "\nJSON keys: from, to, leaves, total, formula, rows, columns (label -> value text),"
+        "\nmatrix (floats), exact (text; not with --float-only), orthogonal,"
+        " orthogonality_error.",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument("source", metavar="FROM", help="the scheme of the rows, e.g. '((a,b)e,c)J'")
+    p.add_argument("target", metavar="TO", help="the scheme of the columns, e.g. '(a,(b,c)f)J'")
+    p.add_argument(
+        "--set",
+        action="append",
+        metavar="NAME=VALUE",
+        help="value of a leaf, e.g. l1=1 (repeat for each leaf); optionally the total, e.g. J=2",
+    )
+    p.add_argument(
+        "--csv",
+        metavar="FILE",
+        help="also write the matrix as CSV to FILE ('-' for stdout, then nothing else is "
+        "printed); cells are exact text such as (1/2)*sqrt(3), floats with --float-only",
+    )
+    p.add_argument("--json", action="store_true", help="print a JSON object")
+    p.add_argument(
+        "--float-only",
+        action="store_true",
+        help="leave the exact entries out of the table, the CSV and the JSON",
+    )
+    p.set_defaults(run=_cmd_matrix)
+
+    p = sub.add_parser(
+        "draw",
+        help="draw a coupling tree, or the path of moves between two schemes",
+        description=_wrap(
+            "Draw one coupling tree, or with --path the whole recoupling path from "
+            "FROM to TO, each arrow labelled with its move (an exchange, or the 6j it costs). "
+            "The format follows the extension of -o: .png, .svg or .pdf."
+        ),
+        epilog="examples:\n"
+        '  recouple draw "((j1,j2)j12,(j3,j4)j34)J" -o tree.svg\n'
+        '  recouple draw "((a,b)e,c)J" "(a,(b,c)f)J" --path -o path.png\n'
+        '  recouple draw "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --path -o path.pdf --json\n'
+        "\nJSON keys: file, format, trees, moves.",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument("source", metavar="SCHEME", help="the scheme to draw (FROM with --path)")
+    p.add_argument("target", metavar="TO", nargs="?", help="with --path: the scheme to reach")
+    p.add_argument("-o", "--output", metavar="FILE", help="the file to write (.png, .svg, .pdf)")
+    p.add_argument("--path", action="store_true", help="draw the derived path from FROM to TO")
+    p.add_argument("--title", help="a title above the drawing")
+    p.add_argument("--json", action="store_true", help="print a one-line JSON object")
+    p.add_argument(
+        "--max-expansions",
+        type=int,
+        metavar="N",
+        help="with --path: budget of the exact search in states expanded",
+    )
+    p.add_argument(
+        "--max-seconds",
+        type=float,
+        metavar="S",
+        help="with --path: time budget of the exact search in seconds",
+    )
+    p.set_defaults(run=_cmd_draw)
+
+    p = sub.add_parser(
         "symbol",
         help="the exact value of a 3j, 6j or 9j symbol or a Clebsch-Gordan coefficient",
-        description="Exact value of one symbol. Entries are integers or half-integers "
-        "(3/2 or 1.5). 3j: j1 j2 j3 m1 m2 m3; cg: j1 m1 j2 m2 j m (<j1 m1 j2 m2|j m>); "
-        "6j: six entries row by row; 9j: nine entries row by row.",
+        description=_wrap(
+            "Exact value of one symbol. Entries are integers or half-integers "
+            "(3/2 or 1.5). 3j: j1 j2 j3 m1 m2 m3; cg: j1 m1 j2 m2 j m (<j1 m1 j2 m2|j m>); "
+            "6j: six entries row by row; 9j: nine entries row by row."
+        ),
         epilog="examples:\n  recouple symbol 6j 1 2 3 2 1 2"
         "\n  recouple symbol cg 1/2 1/2 1/2 -1/2 1 0"
         "\n  recouple symbol 9j 1/2 1/2 1 1/2 1/2 1 1 1 2 --json",
@@ -312,7 +514,8 @@ def main(
     err = err or sys.stderr
     parser = build_parser()
     try:
-        args = parser.parse_args(argv)
+        with redirect_stdout(out):  # --help and --version print to the caller's stream
+            args = parser.parse_args(argv)
         if not getattr(args, "command", None):
             parser.print_help(out)
             return 0
