@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import re
 import sys
 import textwrap
 import threading
@@ -51,7 +52,15 @@ def _wrap(text: str) -> str:
 
 
 class _Parser(argparse.ArgumentParser):
-    """argparse with one-line errors and exit status 2."""
+    """argparse with one-line errors and exit status 2.
+
+    Fractions with a minus sign (``-1/2``, projections of the symbols) are read as
+    values, not as unknown options.
+    """
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        super().__init__(*args, **kwargs)
+        self._negative_number_matcher = re.compile(r"^-(\d+(/\d+)?|\d*\.\d+)$")
 
     def error(self, message: str) -> NoReturn:
         raise _UsageError(f"{self.prog}: {message} (see '{self.prog} --help')")
