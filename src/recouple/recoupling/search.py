@@ -363,8 +363,12 @@ def _astar(
     ]
     push = heapq.heappush
     pop = heapq.heappop
+    pops = 0
     while heap:
         f, neg_moves, _, key, g, exact = pop(heap)
+        pops += 1
+        if deadline is not None and pops % 64 == 0 and time.monotonic() > deadline:
+            raise _OutOfBudget(f // _MOVE)
         if key in closed or g > best_g[key]:
             continue
         cl = unpack(key)
@@ -379,9 +383,7 @@ def _astar(
             while path[-1] != start:
                 path.append(came[path[-1]])
             return tuple(frozenset(unpack(k)) for k in reversed(path))
-        if (max_expansions is not None and stats.expanded >= max_expansions) or (
-            deadline is not None and stats.expanded % 32 == 0 and time.monotonic() > deadline
-        ):
+        if max_expansions is not None and stats.expanded >= max_expansions:
             raise _OutOfBudget(f // _MOVE)
         closed.add(key)
         stats.expanded += 1
