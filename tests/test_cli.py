@@ -310,11 +310,11 @@ def test_internal_error_is_status_1_and_one_line(monkeypatch: pytest.MonkeyPatch
 # ---------------------------------------------------------------------------
 
 
-def doc_commands(path: Path) -> list[tuple[list[str], int]]:
+def doc_commands(path: Path) -> list[tuple[list[str], str | None]]:
     """``$ recouple ...`` lines in fenced blocks (with ``\\`` continuations), and the
-    exit status the docs imply: 2 when the next line shows ``recouple: error:``."""
+    error line the docs show right after a command (None when they show none)."""
     lines = path.read_text(encoding="utf-8").splitlines()
-    found: list[tuple[list[str], int]] = []
+    found: list[tuple[list[str], str | None]] = []
     i = 0
     while i < len(lines):
         line = lines[i].strip()
@@ -324,8 +324,8 @@ def doc_commands(path: Path) -> list[tuple[list[str], int]]:
                 i += 1
                 text = text[:-1] + " " + lines[i].strip()
             following = lines[i + 1].strip() if i + 1 < len(lines) else ""
-            status = 2 if following.startswith("recouple: error:") else 0
-            found.append((shlex.split(text)[1:], status))
+            error = following if following.startswith("recouple: error:") else None
+            found.append((shlex.split(text)[1:], error))
         i += 1
     return found
 
@@ -336,11 +336,14 @@ def test_documented_commands_run(doc: str, tmp_path: Path, monkeypatch: pytest.M
     monkeypatch.chdir(tmp_path)  # drawings and CSV files land in a scratch folder
     commands = doc_commands(DOCS / doc)
     assert len(commands) >= 8, f"{doc} shows too few commands"
-    for argv, expected in commands:
+    for argv, error in commands:
         status, out, err = run(*argv)
-        assert status == expected, (argv, err)
-        if expected == 0:
+        if error is None:
+            assert status == 0, (argv, err)
             assert out, argv
+        else:
+            assert status == 2, argv
+            assert err.strip() == error
 
 
 def test_tutorial_shows_real_output() -> None:
@@ -351,6 +354,20 @@ def test_tutorial_shows_real_output() -> None:
     for schemes, formula in shown:
         source, target = shlex.split(schemes)
         assert formula == str(derive(source, target).formula)
+
+
+def test_tutorial_python_session() -> None:
+    import doctest
+
+    text = (DOCS / "tutorial.md").read_text(encoding="utf-8")
+    blocks = re.findall(r"```python\n(.*?)```", text, flags=re.S)
+    assert blocks, "the tutorial should show the Python API"
+    parser, runner = doctest.DocTestParser(), doctest.DocTestRunner(optionflags=doctest.ELLIPSIS)
+    for n, block in enumerate(blocks):
+        test = parser.get_doctest(block, {}, f"tutorial python block {n}", "tutorial.md", 0)
+        assert test.examples
+        runner.run(test, out=lambda s: None)
+    assert runner.summarize(verbose=False).failed == 0
 
 
 # ---------------------------------------------------------------------------
