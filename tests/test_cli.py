@@ -220,6 +220,23 @@ def test_help_lists_commands_and_every_command_has_examples() -> None:
     assert ok("--version").strip() == f"recouple {recouple.__version__}"
 
 
+@pytest.mark.parametrize("command", ["", "derive", "evaluate", "matrix", "draw", "symbol"])
+def test_help_examples_run(command: str, tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    pytest.importorskip("matplotlib")
+    monkeypatch.chdir(tmp_path)
+    text = ok(*([command] if command else []), "--help").split("example", 1)[1]
+    lines = text.splitlines()
+    examples: list[str] = []
+    for line in lines:
+        if line.startswith("  recouple "):
+            examples.append(line.strip())
+        elif examples and examples[-1].endswith("\\"):
+            examples[-1] = examples[-1][:-1] + " " + line.strip()
+    assert examples
+    for example in examples:
+        assert ok(*shlex.split(example)[1:]), example
+
+
 BAD_INPUT = [
     (["derive", "((a,b)e,c", "(a,(b,c)f)J"], "unclosed"),
     (["derive", "((a,b)e,c)J", "(a,(b,d)f)J"], "different angular momenta"),

@@ -372,7 +372,13 @@ def build_parser() -> argparse.ArgumentParser:
             "Find the shortest path of Racah moves from FROM to TO and print the "
             "exact formula for the overlap <FROM|TO>."
         ),
-        epilog='example:\n  recouple derive "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --json',
+        epilog="examples:\n"
+        '  recouple derive "((a,b)e,c)J" "(a,(b,c)f)J" --moves\n'
+        '  recouple derive "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --json\n'
+        '  recouple derive "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --latex --standalone\n'
+        '  recouple derive "((a,b)e,c)J" "(a,(b,c)f)J" --python\n'
+        "\nJSON keys: from, to, steps, lower_bound, optimal, method, sums, symbols, deltas,"
+        "\nmoves, text.",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_search_options(p)
@@ -397,8 +403,12 @@ def build_parser() -> argparse.ArgumentParser:
             "Evaluate the overlap <FROM|TO> exactly at the values given with --set "
             "(every label of both schemes needs one)."
         ),
-        epilog='example:\n  recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 '
-        "--set b=1/2 --set c=1/2 --set e=1 --set f=0 --set J=1/2 --check",
+        epilog="examples:\n"
+        '  recouple evaluate "((a,b)e,c)J" "(a,(b,c)f)J" --set a=1/2 --set b=1/2 --set c=1/2 \\\n'
+        "      --set e=1 --set f=0 --set J=1/2 --check\n"
+        '  recouple evaluate "(a,b)J" "(b,a)J" --set a=1/2 --set b=1/2 --set J=0 --json\n'
+        "\nJSON keys: value, exact, zero_because (only for a zero by a selection rule);"
+        "\nwith --check also projection, difference, agree.",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_search_options(p)
