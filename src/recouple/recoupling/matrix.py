@@ -23,7 +23,7 @@ from recouple.errors import BadValue
 from recouple.numbers.radicals import Radical
 from recouple.numbers.spins import coupled_range, to_doubled
 from recouple.recoupling.derive import Derivation, derive
-from recouple.recoupling.evaluate import evaluate_doubled, why_zero
+from recouple.recoupling.evaluate import _plan
 from recouple.schemes.tree import Coupling
 
 __all__ = ["MAX_STATES", "TransformationMatrix", "basis_states", "transformation_matrix"]
@@ -128,21 +128,7 @@ def transformation_matrix(
     total = totals.pop() if totals else None
     rows = basis_states(a, leaves, total)
     cols = basis_states(b, leaves, total)
-    f = d.formula
-    shared = [k for k in a.internal_labels() if k in set(b.internal_labels())]
-    exact: list[tuple[Radical, ...]] = []
-    for r in rows:
-        line: list[Radical] = []
-        for c in cols:
-            if r[a.total] != c[b.total] or any(r[k] != c[k] for k in shared):
-                line.append(Radical(0))  # a shared cluster with two values: orthogonal
-                continue
-            doubled = {**leaves, **r, **c}
-            if why_zero(f, doubled) is not None:
-                line.append(Radical(0))
-            else:
-                line.append(evaluate_doubled(f, doubled))
-        exact.append(tuple(line))
+    exact = _entries(d, leaves, rows, cols)
     return TransformationMatrix(
         source=a,
         target=b,
@@ -152,3 +138,37 @@ def transformation_matrix(
         exact=tuple(exact),
         derivation=d,
     )
+
+
+def _entries(
+    d: Derivation,
+    leaves: Mapping[str, int],
+    rows: list[dict[str, int]],
+    cols: list[dict[str, int]],
+) -> list[tuple[Radical, ...]]:
+    """Every entry <row|column>, the formula compiled once for all of them.
+
+    Basis states satisfy the triads of their own scheme by construction, so the
+    only entries that vanish before any symbol is looked at are those where a
+    cluster of both schemes (the total, a shared label, or a delta pair under two
+    names) has different values in the row and the column: such states are
+    orthogonal (common practice).  Rows and columns are grouped by the values of
+    those clusters, so incompatible pairs are never visited and no entry is
+    re-checked; the rest go straight to the compiled plan.
+    """
+    a, b = d.source, d.target
+    b_clusters = b.clusters()
+    pairs = [(la, b_clusters[c]) for c, la in a.clusters().items() if c in b_clusters]
+    plan = _plan(d.formula)
+    zero = Radical(0)
+    by_key: dict[tuple[int, ...], list[int]] = {}
+    for k, c in enumerate(cols):
+        by_key.setdefault(tuple(c[lb] for _, lb in pairs), []).append(k)
+    exact: list[tuple[Radical, ...]] = []
+    for r in rows:
+        line = [zero] * len(cols)
+        for k in by_key.get(tuple(r[la] for la, _ in pairs), ()):
+            doubled = {**leaves, **r, **cols[k]}
+            line[k] = plan.exact([doubled[label] for label in plan.free])
+        exact.append(tuple(line))
+    return exact
