@@ -52,7 +52,7 @@ def ok(*argv: str) -> str:
 def test_derive_text_and_moves() -> None:
     out = ok("derive", *THREE)
     assert out.splitlines()[0] == str(derive(*THREE).formula)
-    assert "1 Racah move(s), proven shortest" in out
+    assert "shortest Racah path: 1 move(s), proven shortest" in out
     out = ok("derive", *THREE, "--moves")
     assert "#  1. 6j {a b e; c J f}: ((a,b)e,c)J -> (a,(b,c)f)J" in out
 

@@ -123,6 +123,10 @@ def _derivation_json(d: Any) -> dict[str, Any]:
         "optimal": d.optimal,
         "method": d.search.method,
         "sums": list(f.sums),
+        "sums_on_plain_path": d.sums_on_plain_path,
+        "fewer_sums_search": d.compact_status,
+        "racah_moves_used": d.racah_moves,
+        "ninej_moves_used": d.ninej_moves,
         "symbols": {"6j": counts["6j"], "9j": counts["9j"]},
         "deltas": [list(pair) for pair in f.deltas],
         "moves": [m.describe() for m in d.moves],
@@ -153,10 +157,16 @@ def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     counts = f.counts()
     proof = "proven shortest" if d.optimal else f"not proven shortest (lower bound {d.lower_bound})"
     print(
-        f"# {d.steps} Racah move(s), {proof}; {counts['sums']} sum(s), "
-        f"{counts['6j']} 6j, {counts['9j']} 9j",
+        f"# shortest Racah path: {d.steps} move(s), {proof}; this formula: "
+        f"{counts['sums']} sum(s), {counts['6j']} 6j, {counts['9j']} 9j",
         file=out,
     )
+    if len(f.sums) < d.sums_on_plain_path:
+        print(
+            f"# a form with fewer sums than the shortest Racah path: {len(f.sums)} instead of "
+            f"{d.sums_on_plain_path} (uses {d.ninej_moves} 9j move(s))",
+            file=out,
+        )
     if args.moves:
         for i, move in enumerate(d.moves, 1):
             print(f"#  {i}. {move.describe()}: {move.before} -> {move.after}", file=out)
@@ -377,8 +387,8 @@ def build_parser() -> argparse.ArgumentParser:
         '  recouple derive "((a,b)e,(c,d)f)J" "((a,c)g,(b,d)h)J" --json\n'
         '  recouple derive "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --latex --standalone\n'
         '  recouple derive "((a,b)e,c)J" "(a,(b,c)f)J" --python\n'
-        "\nJSON keys: from, to, steps, lower_bound, optimal, method, sums, symbols, deltas,"
-        "\nmoves, text.",
+        "\nJSON keys: from, to, steps, lower_bound, optimal, method, sums, sums_on_plain_path,"
+        "\nfewer_sums_search, racah_moves_used, ninej_moves_used, symbols, deltas, moves, text.",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_search_options(p)

@@ -15,8 +15,9 @@ from collections import Counter
 from dataclasses import dataclass
 
 from recouple.errors import SchemeMismatch
+from recouple.recoupling.compact import COMPACT_MAX_LEAVES, compact_path
 from recouple.recoupling.formula import Formula, simplify
-from recouple.recoupling.moves import Move, exchange_at, racah_at
+from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
 from recouple.recoupling.search import SearchResult, shortest_path
 from recouple.schemes.notation import parse
 from recouple.schemes.tree import Coupling, Node, check_scheme
@@ -32,9 +33,14 @@ _SUM_STEMS = ("x", "y", "z", "k", "u", "v", "w", "q")
 class Derivation:
     """The result of :func:`derive`: the path of moves and the formula it yields.
 
-    ``path`` holds the trees before and after every move (``len(moves) + 1``
-    trees); ``steps`` counts the Racah moves (6j symbols on the path);
-    ``lower_bound`` and ``optimal`` come from the search.
+    ``steps`` is the length of the shortest path of Racah moves (one 6j each),
+    with ``lower_bound`` and ``optimal`` (proven shortest) from the search.
+    ``formula`` is the most compact formula found: the plain path's, or, where it
+    has fewer summations, that of a path that also uses 9j moves
+    (:mod:`recouple.recoupling.compact`); ``path`` and ``moves`` are the path
+    behind ``formula`` (``len(moves) + 1`` trees, exchanges included), and
+    ``sums_on_plain_path`` counts the summations the plain path needs and
+    ``compact_status`` says what the search for fewer sums found.
     """
 
     source: Coupling
@@ -46,6 +52,24 @@ class Derivation:
     optimal: bool
     search: SearchResult
     formula: Formula
+    sums_on_plain_path: int
+    compact_status: str
+
+    def _repr_svg_(self) -> str:
+        """A drawing of the path, for notebooks (the writer lives in recouple.outputs)."""
+        from recouple.outputs.drawing import path_svg
+
+        return path_svg(self.path, [m.describe() for m in self.moves])
+
+    @property
+    def racah_moves(self) -> int:
+        """Racah moves on the path behind ``formula``."""
+        return sum(1 for m in self.moves if m.kind == "racah")
+
+    @property
+    def ninej_moves(self) -> int:
+        """9j moves on the path behind ``formula``."""
+        return sum(1 for m in self.moves if m.kind == "ninej")
 
 
 def as_scheme(scheme: Coupling | str) -> Coupling:
@@ -101,13 +125,16 @@ def derive(
     *,
     max_expansions: int | None = None,
     max_seconds: float | None = None,
+    compact: bool = True,
 ) -> Derivation:
     """Find the cheapest path of moves from ``source`` to ``target`` and its formula.
 
     The formula is for the overlap ``<source|target>``; both schemes may be given
     as text.  ``max_expansions`` and ``max_seconds`` bound the exact search (the
     defaults are the search's own); past them a heuristic path is used and
-    ``optimal`` is False.
+    ``optimal`` is False.  With ``compact`` (the default) and at most
+    :data:`~recouple.recoupling.compact.COMPACT_MAX_LEAVES` leaves, a formula with
+    fewer summations than the plain path's is looked for and used when found.
 
     >>> d = derive("((a,b)e,c)J", "(a,(b,c)f)J")
     >>> d.steps, [m.kind for m in d.moves]
@@ -132,7 +159,25 @@ def derive(
         options["max_seconds"] = max_seconds
     result = shortest_path(a_masks, b_masks, len(leaves), **options)  # type: ignore[arg-type]
 
-    walk = _Walk(a, b, bit, b_named, result)
+    walk = _Walk(a, b, bit, b_named, result.path)
+    formula = simplify(walk.formula())
+    plain_sums = len(formula.sums)
+    status = "no sums on the plain path"
+    if formula.sums and not compact:
+        status = "not searched"
+    elif formula.sums and len(leaves) > COMPACT_MAX_LEAVES:
+        status = f"not searched (more than {COMPACT_MAX_LEAVES} leaves)"
+    elif formula.sums:
+        found = compact_path(a_masks, b_masks, len(leaves), below_sums=plain_sums)
+        status = "proven: no form with fewer sums" if found.optimal else "search out of budget"
+        if found.found:
+            other = _Walk(a, b, bit, b_named, found.path, found.kinds)
+            other_formula = simplify(other.formula())
+            if _size(other_formula) < _size(formula):
+                walk, formula = other, other_formula
+                status = "fewer sums than the plain path" + (
+                    " (proven fewest)" if found.optimal else ""
+                )
     return Derivation(
         source=a,
         target=b,
@@ -142,8 +187,15 @@ def derive(
         lower_bound=result.lower_bound,
         optimal=result.optimal,
         search=result,
-        formula=simplify(walk.formula()),
+        formula=formula,
+        sums_on_plain_path=plain_sums,
+        compact_status=status,
     )
+
+
+def _size(formula: Formula) -> tuple[int, int]:
+    """How compact a formula is: summations first, then symbols."""
+    return len(formula.sums), len(formula.sixjs) + len(formula.ninejs)
 
 
 def _node_masks(tree: Coupling, bit: dict[str, int]) -> dict[int, Node]:
@@ -162,7 +214,11 @@ def _parent_of(tree: Coupling, label: str) -> Coupling:
 
 
 class _Walk:
-    """Turn the search's sequence of cluster sets into ordered moves on real trees."""
+    """Turn a sequence of cluster sets into ordered moves on real trees.
+
+    ``kinds[i]`` says which move leads from ``path[i]`` to ``path[i + 1]``:
+    ``"racah"`` (one cluster replaced) or ``"ninej"`` (two replaced).
+    """
 
     def __init__(
         self,
@@ -170,7 +226,8 @@ class _Walk:
         b: Coupling,
         bit: dict[str, int],
         b_named: dict[int, str],
-        result: SearchResult,
+        path: tuple[frozenset[int], ...],
+        kinds: tuple[str, ...] | None = None,
     ) -> None:
         self.a, self.b, self.bit = a, b, bit
         self.trees: list[Coupling] = [a]
@@ -178,23 +235,27 @@ class _Walk:
         self.sums: list[str] = []
         self.sum_clusters: dict[str, frozenset[str]] = {}
         stem = _sum_stem(set(a.labels()) | set(b.labels()))
-        path = result.path
-        steps = [
-            (next(iter(path[i] - path[i + 1])), next(iter(path[i + 1] - path[i])))
-            for i in range(len(path) - 1)
-        ]
+        kinds = kinds or ("racah",) * (len(path) - 1)
+        steps = [(path[i] - path[i + 1], path[i + 1] - path[i]) for i in range(len(path) - 1)]
         for i, (removed, added) in enumerate(steps):
-            # A cluster keeps the target's name only if it survives to the end;
-            # anything created and destroyed later is summed over.
-            survives = all(later_removed != added for later_removed, _ in steps[i + 1 :])
-            if added in b_named and survives:
-                label = b_named[added]
+            labels: dict[int, str] = {}
+            for cluster in sorted(added):
+                # A cluster keeps the target's name only if it survives to the end;
+                # anything created and destroyed later is summed over.
+                survives = all(cluster not in later for later, _ in steps[i + 1 :])
+                if cluster in b_named and survives:
+                    labels[cluster] = b_named[cluster]
+                else:
+                    labels[cluster] = f"{stem}{len(self.sums) + 1}"
+                    self.sums.append(labels[cluster])
+            if kinds[i] == "ninej":
+                self._ninej(sorted(removed), sorted(added), labels)
             else:
-                label = f"{stem}{len(self.sums) + 1}"
-                self.sums.append(label)
-            self._racah(removed, added, label)
-            if label in self.sums:
-                self.sum_clusters[label] = frozenset(self._node(added).leaves())
+                (old,), (new,) = removed, added
+                self._racah(old, new, labels[new])
+            for cluster, label in labels.items():
+                if label in self.sums:
+                    self.sum_clusters[label] = frozenset(self._node(cluster).leaves())
         self._order_like(b)
         self.deltas: list[tuple[str, str]] = []
         here = {mask: node.label for mask, node in _node_masks(self.trees[-1], bit).items()}
@@ -231,6 +292,19 @@ class _Walk:
         parent = _parent_of(self.current, node.label)
         self._apply(racah_at(self.current, parent.label, new_label=label))
 
+    def _ninej(self, removed: list[int], added: list[int], labels: dict[int, str]) -> None:
+        """((A B)e, (C D)f)g -> ((A C)x, (B D)y)g, with exchanges first where needed."""
+        first = self._node(removed[0])
+        g = _parent_of(self.current, first.label)
+        x_mask, y_mask = added
+        for part in (g.left, g.right):
+            assert isinstance(part, Coupling)
+            if not self._mask(part.left) & x_mask:  # the part joining x must come first
+                self._apply(exchange_at(self.current, part.label))
+        g = _parent_of(self.current, first.label)
+        new_labels = (labels[x_mask], labels[y_mask])
+        self._apply(ninej_at(self.current, g.label, new_labels=new_labels))
+
     def _order_like(self, b: Coupling) -> None:
         """Exchange parts until every coupling has its parts in the target's order."""
         for target_node in b.couplings():
@@ -245,12 +319,14 @@ class _Walk:
         phase: Counter[str] = Counter()
         hats: Counter[str] = Counter()
         sixjs: list[tuple[str, str, str, str, str, str]] = []
+        ninejs: list[tuple[str, str, str, str, str, str, str, str, str]] = []
         for move in self.moves:
             coefficient = move.coefficient()
             for label, c in coefficient.phase:
                 phase[label] += c
             hats.update(coefficient.hats)
             sixjs.extend(coefficient.sixjs)
+            ninejs.extend(coefficient.ninejs)
         clusters: dict[str, frozenset[str]] = {leaf: frozenset((leaf,)) for leaf in self.a.leaves()}
         for scheme in (self.a, self.b):
             for cluster, label in scheme.clusters().items():
@@ -267,7 +343,7 @@ class _Walk:
             constant=0,
             hats=tuple(hats.items()),
             sixjs=tuple(sixjs),
-            ninejs=(),
+            ninejs=tuple(ninejs),
             deltas=tuple(self.deltas),
             clusters=tuple(clusters.items()),
             order=tuple(order),

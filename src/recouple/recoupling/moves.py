@@ -29,11 +29,26 @@ from dataclasses import dataclass, field
 from recouple.errors import SchemeMismatch
 from recouple.schemes.tree import Coupling, Node
 
-__all__ = ["COSTS", "Coefficient", "Exchange", "Move", "RacahMove", "exchange_at", "racah_at"]
+__all__ = [
+    "COSTS",
+    "Coefficient",
+    "Exchange",
+    "Move",
+    "NineJMove",
+    "RacahMove",
+    "exchange_at",
+    "ninej_at",
+    "racah_at",
+]
 
-#: Declared cost of each move: the number of 6j symbols it puts into the formula.
-#: The search minimises the total; exchanges are free.
-COSTS = {"exchange": 0, "racah": 1}
+#: Declared cost of each move: the symbols it puts into the formula and the new
+#: coupling labels it creates (each created label that does not survive to the
+#: end is a summation variable).  Exchanges are free.
+COSTS = {
+    "exchange": {"symbols": 0, "new_labels": 0},
+    "racah": {"symbols": 1, "new_labels": 1},
+    "ninej": {"symbols": 1, "new_labels": 2},
+}
 
 
 @dataclass(frozen=True, slots=True)
@@ -48,6 +63,7 @@ class Coefficient:
     phase: tuple[tuple[str, int], ...] = ()
     hats: tuple[str, ...] = ()
     sixjs: tuple[tuple[str, str, str, str, str, str], ...] = ()
+    ninejs: tuple[tuple[str, str, str, str, str, str, str, str, str], ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -105,7 +121,44 @@ class RacahMove:
         return f"6j {{{self.x} {self.y} {self.e}; {self.z} {self.f} {self.g}}}"
 
 
-Move = Exchange | RacahMove
+@dataclass(frozen=True, slots=True)
+class NineJMove:
+    """Recouple four parts at once: ``((A B)e, (C D)f)g -> ((A C)x, (B D)y)g``.
+
+    Coefficient ``sqrt((2e+1)(2f+1)(2x+1)(2y+1)) {a b e; c d f; x y g}``, one 9j
+    and no phase (Edmonds 1957 §6.4, from memory; CONVENTIONS 3.3).
+    """
+
+    before: Coupling
+    after: Coupling
+    a: str
+    b: str
+    c: str
+    d: str
+    e: str
+    f: str
+    g: str
+    x: str
+    y: str
+
+    kind = "ninej"
+
+    def coefficient(self) -> Coefficient:
+        """``sqrt((2e+1)(2f+1)(2x+1)(2y+1)) {a b e; c d f; x y g}``."""
+        return Coefficient(
+            hats=(self.e, self.f, self.x, self.y),
+            ninejs=((self.a, self.b, self.e, self.c, self.d, self.f, self.x, self.y, self.g),),
+        )
+
+    def describe(self) -> str:
+        """A short human description naming the 9j it costs."""
+        return (
+            f"9j {{{self.a} {self.b} {self.e}; {self.c} {self.d} {self.f}; "
+            f"{self.x} {self.y} {self.g}}}"
+        )
+
+
+Move = Exchange | RacahMove | NineJMove
 
 
 def _replace(root: Node, label: str, new: Node) -> Node:
@@ -175,3 +228,35 @@ def racah_at(tree: Coupling, label: str, *, new_label: str) -> RacahMove:
             tree, after, x.label, y.label, z.label, new_label, node.label, inner.label, False
         )
     raise SchemeMismatch(f"no Racah move at {label!r}: both its parts are leaves")
+
+
+def ninej_at(tree: Coupling, label: str, *, new_labels: tuple[str, str]) -> NineJMove:
+    """The 9j move at ``label``, which must read ``((A B)e, (C D)f)g``.
+
+    >>> from recouple.schemes import parse
+    >>> m = ninej_at(parse("((a,b)e,(c,d)f)J"), "J", new_labels=("g", "h"))
+    >>> str(m.after), m.describe()
+    ('((a,c)g,(b,d)h)J', '9j {a b e; c d f; g h J}')
+    """
+    node = _find(tree, label)
+    left, right = node.left, node.right
+    if not (isinstance(left, Coupling) and isinstance(right, Coupling)):
+        raise SchemeMismatch(f"no 9j move at {label!r}: both its parts must be couplings")
+    x, y = new_labels
+    new = Coupling(
+        Coupling(left.left, right.left, x), Coupling(left.right, right.right, y), node.label
+    )
+    after = _as_scheme(_replace(tree, label, new))
+    return NineJMove(
+        tree,
+        after,
+        left.left.label,
+        left.right.label,
+        right.left.label,
+        right.right.label,
+        left.label,
+        right.label,
+        node.label,
+        x,
+        y,
+    )

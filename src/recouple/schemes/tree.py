@@ -146,6 +146,12 @@ class Coupling:
     def __len__(self) -> int:
         return len(self.leaves())
 
+    def _repr_svg_(self) -> str:
+        """A drawing of the tree, for notebooks (the writer lives in recouple.outputs)."""
+        from recouple.outputs.drawing import tree_svg
+
+        return tree_svg(self)
+
 
 Node: TypeAlias = "Leaf | Coupling"
 
