@@ -268,19 +268,115 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     """An admissible lower bound on the number of Racah moves from source to target.
 
     With ``a = |C(source) - C(target)|`` (half the Robinson-Foulds distance,
-    CONVENTIONS 5.3) and ``nu`` the size of a maximum matching between the clusters
-    to remove and the clusters to create, joining two when they cross, the bound is
-    ``2a - nu`` (own argument, checked against brute force in tests/test_search.py):
-    every cluster to remove has a first removal, every cluster to create a last
-    creation; one move removes one cluster and adds one that crosses it, so a move
-    can serve as both only for a crossing pair, and those pairs form a matching.
+    CONVENTIONS 5.3) the bound is ``2a - P``, where ``P`` is the largest number of
+    clusters to remove that can each be the *last* remaining source cluster crossing
+    some cluster to create, over all orders of removal (own argument, below; checked
+    against brute force in tests/test_search.py).
+
+    Proof.  Take any path.  Order the clusters ``s`` of ``source - target`` by their
+    first removal.  Every target cluster ``t`` to create has a first creation, and
+    these ``a`` moves each create a target cluster.  Consider the move that removes
+    ``s`` for the first time.  If it creates a target cluster ``t``, then ``t`` crosses
+    ``s`` (CONVENTIONS 5.2), so ``t`` was absent at the start and could not have been
+    created while ``s`` was present: this is the first creation of ``t``; and every
+    other source cluster crossing ``t`` is gone by then, i.e. removed earlier, so
+    ``s`` is last among them in the order.  Otherwise the move creates a cluster
+    outside the target.  Hence at least ``a - P`` moves create non-target clusters,
+    besides the ``a`` moves creating target clusters: at least ``2a - P`` moves.
+    ``P`` never exceeds the largest matching of crossing pairs, so this is at least
+    the matching bound ``2a - nu``.  ``P`` is found by peeling (a cluster that alone
+    crosses some target cluster can go first without loss: it scores, and putting it
+    earlier only helps the others), then an exact recursion over subsets of the rest
+    (at most ``_DP_MAX`` clusters; above that the rest is bounded by "the first of
+    each remaining group cannot score", still admissible).
 
     >>> lower_bound(frozenset({0b0011, 0b0111}), frozenset({0b1100, 0b1110}), 4)
     2
     """
-    gone = sorted(source - target)
-    new = sorted(target - source)
-    return 2 * len(gone) - _max_matching(gone, new)
+    return _order_bound(sorted(source - target), sorted(target - source))
+
+
+#: Largest residue (after peeling) solved exactly over its subsets.
+_DP_MAX = 12
+
+
+def _order_bound(gone: list[int], new: list[int]) -> int:
+    """``2a - P`` of :func:`lower_bound` for the clusters to remove and to create."""
+    a = len(gone)
+    if a == 0:
+        return 0
+    edges: list[int] = []  # per target cluster: the removable clusters crossing it
+    for t in new:
+        e = 0
+        for i, s in enumerate(gone):
+            if s & t and s & ~t and t & ~s:
+                e |= 1 << i
+        edges.append(e)
+    alive = (1 << a) - 1
+    score = 0
+    while True:  # peeling
+        edges = [e & alive for e in edges]
+        edges = [e for e in edges if e]
+        single = 0
+        for e in edges:
+            if e & (e - 1) == 0:
+                single |= e
+        if not single:
+            break
+        score += single.bit_count()
+        alive &= ~single
+    used = 0
+    for e in edges:
+        used |= e
+    alive &= used  # a cluster crossing no remaining target cluster never scores
+    k = alive.bit_count()
+    if k == 0:
+        return 2 * a - score
+    idx = [i for i in range(a) if alive >> i & 1]
+    cedges = []
+    for e in set(edges):
+        c = 0
+        for j, i in enumerate(idx):
+            if e >> i & 1:
+                c |= 1 << j
+        cedges.append(c)
+    if k > _DP_MAX:
+        # each connected group of the rest: its first removal cannot score
+        groups = 0
+        left = (1 << k) - 1
+        while left:
+            comp = left & -left
+            grown = True
+            while grown:
+                grown = False
+                for e in cedges:
+                    if e & comp and e & ~comp:
+                        comp |= e
+                        grown = True
+            left &= ~comp
+            groups += 1
+        return 2 * a - score - (k - groups)
+    by_v = [[e for e in cedges if e >> j & 1] for j in range(k)]
+    full = (1 << k) - 1
+    f = [-1] * (1 << k)
+    f[0] = 0
+    for d in range(1 << k):
+        fd = f[d]
+        if fd < 0:
+            continue
+        rest = full & ~d
+        while rest:
+            bit = rest & -rest
+            rest ^= bit
+            nd = d | bit
+            v = fd
+            for e in by_v[bit.bit_length() - 1]:
+                if e & ~nd == 0:
+                    v += 1
+                    break
+            if v > f[nd]:
+                f[nd] = v
+    return 2 * a - score - f[full]
 
 
 # ---------------------------------------------------------------------------
@@ -318,10 +414,11 @@ def _astar(
     """A* on the lexicographic cost (moves, sums), packed as ``moves * _MOVE + sums``.
 
     States are packed keys: the sorted clusters, n bits each, in one int.  The bound
-    ``2a - nu`` is consistent (one move changes ``a`` by at most one and, when it
-    removes a crossing pair, lowers ``nu`` by at least one), so a state is final
-    when first expanded.  A successor's bound is first estimated as its parent's
-    minus one and computed only when it reaches the top of the heap.  Paths of more
+    of :func:`lower_bound` is admissible but not known to be consistent, so a closed
+    state is reopened when reached more cheaply (A* stays optimal with reopening).
+    A successor's bound is first estimated as its parent's minus one (pathmax:
+    admissible, since neighbours' distances differ by at most one) and the real
+    bound is computed only when it reaches the top of the heap; the larger is used.  Paths of more
     than ``upper`` moves are pruned; None means no path within ``upper``.
     Raises :class:`_OutOfBudget` with the smallest open f, a proven lower bound.
     """
@@ -348,13 +445,14 @@ def _astar(
         have = set(cl)
         gone = [c for c in cl if c not in tgt]
         new = [c for c in tgt_list if c not in have]
-        return 2 * len(gone) - _max_matching(gone, new)
+        return _order_bound(gone, new)
 
     limit = None if upper is None else (upper + 1) * _MOVE  # prune f >= limit
     counter = count()
     best_g: dict[int, int] = {start: 0}
     came: dict[int, int] = {}
     closed: set[int] = set()
+    closed_g: dict[int, int] = {}
     h0 = h(unpack(start))
     if limit is not None and h0 * _MOVE >= limit:
         return None
@@ -369,10 +467,11 @@ def _astar(
         pops += 1
         if deadline is not None and pops % 64 == 0 and time.monotonic() > deadline:
             raise _OutOfBudget(f // _MOVE)
-        if key in closed or g > best_g[key]:
+        if g > best_g[key] or (key in closed and g == closed_g[key]):
             continue
         cl = unpack(key)
         if not exact:
+            # pathmax: the estimate est (parent's bound minus one) is admissible too
             f2 = g + h(cl) * _MOVE
             if f2 > f:
                 if limit is None or f2 < limit:
@@ -386,6 +485,7 @@ def _astar(
         if max_expansions is not None and stats.expanded >= max_expansions:
             raise _OutOfBudget(f // _MOVE)
         closed.add(key)
+        closed_g[key] = g
         stats.expanded += 1
         stats.peak_closed = len(closed)
         # the successors' bound is at least this one minus one (consistency)
@@ -402,8 +502,8 @@ def _astar(
                     continue
                 j = bisect_left(rest, new)
                 k2 = pack(rest[:j] + [new] + rest[j:])
-                if k2 in closed or best_g.get(k2, g2 + 1) <= g2:
-                    continue
+                if best_g.get(k2, g2 + 1) <= g2:
+                    continue  # a closed state is reopened when reached more cheaply
                 best_g[k2] = g2
                 came[k2] = key
                 push(heap, (f2, neg_moves - 1, next(counter), k2, g2, False))
