@@ -270,7 +270,9 @@ def test_heuristic_at_sixty_leaves() -> None:
 # ---------------------------------------------------------------------------
 
 
-def measure_search_memory(n: int, seeds: range) -> list[tuple[int, int, bool, int, float]]:
+def measure_search_memory(
+    n: int, seeds: range, **budget: float | None
+) -> list[tuple[int, int, bool, int, float]]:
     """(seed, expansions, optimal, tracemalloc peak in bytes, seconds) per random pair."""
     leaves = [f"j{i}" for i in range(1, n + 1)]
     out = []
@@ -279,7 +281,7 @@ def measure_search_memory(n: int, seeds: range) -> list[tuple[int, int, bool, in
         a, b = random_tree(leaves, rng), random_tree(leaves, rng)
         tracemalloc.start()
         start = time.perf_counter()
-        d = recouple.derive(a, b)
+        d = recouple.derive(a, b, **budget)  # type: ignore[arg-type]
         seconds = time.perf_counter() - start
         _, peak = tracemalloc.get_traced_memory()
         tracemalloc.stop()
@@ -288,10 +290,14 @@ def measure_search_memory(n: int, seeds: range) -> list[tuple[int, int, bool, in
 
 
 if __name__ == "__main__":
-    for n in (12, 16):
-        rows = measure_search_memory(n, range(5))
-        for seed, expanded, optimal, peak, seconds in rows:
+    for n, seeds, budget in (
+        (12, range(5), {}),
+        (16, range(5), {}),
+        (12, range(1), {"max_seconds": None}),
+        (16, range(1), {"max_seconds": None}),
+    ):
+        for seed, expanded, optimal, peak, seconds in measure_search_memory(n, seeds, **budget):
             print(
-                f"n={n} seed={seed}: expanded {expanded}, optimal {optimal}, "
-                f"peak {peak / 2**20:.1f} MiB, {seconds:.1f} s"
+                f"n={n} seed={seed} {budget or 'default budget'}: expanded {expanded}, "
+                f"optimal {optimal}, peak {peak / 2**20:.1f} MiB, {seconds:.1f} s"
             )
