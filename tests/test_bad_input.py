@@ -699,7 +699,6 @@ def test_long_valid_text_parses() -> None:
 # ---------------------------------------------------------------------------
 
 
-@pytest.mark.xfail(strict=True, reason="bug: a 5000-digit value is called 'not an integer'")
 def test_bug_many_digit_value_names_the_limit() -> None:
     raw = "9" * 5000
     with pytest.raises(BadValue, match=r"above the limit MAX_SPIN = 1000") as info:
@@ -713,7 +712,6 @@ def test_bug_values_not_a_mapping() -> None:
         formula().evaluate(None)  # type: ignore[arg-type]
 
 
-@pytest.mark.xfail(strict=True, reason="bug: negative or NaN search budgets pass silently")
 @pytest.mark.parametrize(
     ("option", "bad"),
     [("max_expansions", -1), ("max_expansions", "5"), ("max_seconds", float("nan"))],
@@ -723,14 +721,12 @@ def test_bug_bad_budget_refused(option: str, bad: object) -> None:
         recouple.derive(A, B, **{option: bad})  # type: ignore[arg-type]
 
 
-@pytest.mark.xfail(strict=True, reason="bug: the command line accepts --max-expansions -1")
 def test_bug_cli_negative_budget() -> None:
     status, _, err = run("derive", A, B, "--max-expansions", "-1")
     assert status == 2
     assert "--max-expansions" in err
 
 
-@pytest.mark.xfail(strict=True, reason="bug: check_scheme does not check names of built trees")
 def test_bug_tree_with_bad_names() -> None:
     from recouple import Coupling, Leaf
 
@@ -739,7 +735,6 @@ def test_bug_tree_with_bad_names() -> None:
         recouple.derive(bad, Coupling(Leaf("c"), Leaf("x y"), "J"))
 
 
-@pytest.mark.xfail(strict=True, reason="bug: the search's progress line starts before parsing")
 def test_bug_progress_line_before_a_notation_error(monkeypatch: pytest.MonkeyPatch) -> None:
     # A scheme that is slow to read (here: as if > 1 s) must still give one line.
     monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)

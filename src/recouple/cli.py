@@ -106,10 +106,37 @@ def _search_options(args: argparse.Namespace) -> dict[str, Any]:
 
 
 def _derive(args: argparse.Namespace, err: TextIO) -> Any:
-    from recouple.recoupling.derive import derive
+    from recouple.recoupling.derive import as_scheme, check_pair, derive
 
+    # Read and compare the schemes first, so that bad text fails before any progress line.
+    source, target = as_scheme(args.source), as_scheme(args.target)
+    check_pair(source, target)
     with _progress("searching for the shortest path", err):
-        return derive(args.source, args.target, **_search_options(args))
+        return derive(source, target, **_search_options(args))
+
+
+def _count(text: str) -> int:
+    """An argparse type: a whole number >= 0."""
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number >= 0, got {text!r}") from None
+    if value < 0:
+        raise argparse.ArgumentTypeError(f"expected a whole number >= 0, got {text!r}")
+    return value
+
+
+def _seconds(text: str) -> float:
+    """An argparse type: a finite number of seconds >= 0."""
+    import math
+
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected seconds >= 0, got {text!r}") from None
+    if not math.isfinite(value) or value < 0:
+        raise argparse.ArgumentTypeError(f"expected seconds >= 0, got {text!r}")
+    return value
 
 
 def _derivation_json(d: Any) -> dict[str, Any]:
@@ -352,12 +379,15 @@ def _add_search_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("target", metavar="TO", help="the second scheme, e.g. '(a,(b,c)f)J'")
     p.add_argument(
         "--max-expansions",
-        type=int,
+        type=_count,
         metavar="N",
         help="budget of the exact search in states expanded",
     )
     p.add_argument(
-        "--max-seconds", type=float, metavar="S", help="time budget of the exact search in seconds"
+        "--max-seconds",
+        type=_seconds,
+        metavar="S",
+        help="time budget of the exact search in seconds",
     )
 
 
@@ -503,13 +533,13 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--json", action="store_true", help="print a one-line JSON object")
     p.add_argument(
         "--max-expansions",
-        type=int,
+        type=_count,
         metavar="N",
         help="with --path: budget of the exact search in states expanded",
     )
     p.add_argument(
         "--max-seconds",
-        type=float,
+        type=_seconds,
         metavar="S",
         help="with --path: time budget of the exact search in seconds",
     )

@@ -43,6 +43,9 @@ def _where(name: str | None, what: str) -> str:
     return f"value of {name!r}" if name is not None else what
 
 
+_NUMERAL = frozenset("0123456789+-./eE")
+
+
 def _to_fraction(value: object, *, name: str | None, what: str, rule: str) -> Fraction:
     """Read ``value`` as an exact number, refusing anything that is not one."""
     where = _where(name, what)
@@ -56,10 +59,17 @@ def _to_fraction(value: object, *, name: str | None, what: str, rule: str) -> Fr
         return Fraction(value)
     if isinstance(value, str):
         text = value.strip()
+        shown = repr(value) if len(value) <= 40 else repr(value[:37] + "...")
+        # Only plain ASCII numerals: Fraction would also read "1_0" or other scripts' digits.
+        if not text or any(ch not in _NUMERAL for ch in text):
+            raise BadValue(f"{where} must be {rule}, got {shown}")
+        digits = text.lstrip("+").lstrip("0")
+        if digits.isdigit() and len(digits) > 6:  # also beyond Python's int-from-text limit
+            raise BadValue(f"{where} is {shown}, above the limit MAX_SPIN = {MAX_SPIN}")
         try:
             out = Fraction(text)
         except (ValueError, ZeroDivisionError):
-            raise BadValue(f"{where} must be {rule}, got {value!r}") from None
+            raise BadValue(f"{where} must be {rule}, got {shown}") from None
         return out
     raise BadValue(f"{where} must be {rule} (a number or text such as '3/2'), got {value!r}")
 

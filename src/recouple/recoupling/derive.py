@@ -14,7 +14,7 @@ import re
 from collections import Counter
 from dataclasses import dataclass
 
-from recouple.errors import SchemeMismatch
+from recouple.errors import BadValue, SchemeMismatch
 from recouple.recoupling.compact import COMPACT_MAX_LEAVES, compact_path
 from recouple.recoupling.formula import Formula, simplify
 from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
@@ -152,6 +152,7 @@ def derive(
     a_masks = frozenset(m for m in map(mask, a.clusters()) if m != full)
     b_named = {mask(c): label for c, label in b.clusters().items()}
     b_masks = frozenset(m for m in b_named if m != full)
+    _check_budget(max_expansions, max_seconds)
     options: dict[str, float] = {}
     if max_expansions is not None:
         options["max_expansions"] = max_expansions
@@ -196,6 +197,25 @@ def derive(
 def _size(formula: Formula) -> tuple[int, int]:
     """How compact a formula is: summations first, then symbols."""
     return len(formula.sums), len(formula.sixjs) + len(formula.ninejs)
+
+
+def _check_budget(max_expansions: object, max_seconds: object) -> None:
+    """Refuse budgets that would silently mean something else (a negative count, NaN)."""
+    import math
+
+    if max_expansions is not None and (
+        isinstance(max_expansions, bool)
+        or not isinstance(max_expansions, int)
+        or max_expansions < 0
+    ):
+        raise BadValue(f"max_expansions must be a whole number >= 0, got {max_expansions!r}")
+    if max_seconds is not None and (
+        isinstance(max_seconds, bool)
+        or not isinstance(max_seconds, int | float)
+        or not math.isfinite(max_seconds)
+        or max_seconds < 0
+    ):
+        raise BadValue(f"max_seconds must be a finite number >= 0, got {max_seconds!r}")
 
 
 def _node_masks(tree: Coupling, bit: dict[str, int]) -> dict[int, Node]:

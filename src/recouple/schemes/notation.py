@@ -25,7 +25,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from recouple.errors import NotationError
-from recouple.schemes.tree import MAX_LEAVES, Coupling, Leaf, Node
+from recouple.schemes.tree import MAX_LEAVES, Coupling, Leaf, Node, _is_body, _is_start, is_name
 
 __all__ = ["is_name", "parse"]
 
@@ -52,26 +52,6 @@ _LOOKALIKES = {
     "{": "(",
     "}": ")",
 }
-
-
-def is_name(text: str) -> bool:
-    """True when ``text`` is a valid leaf or label name.
-
-    >>> is_name("j12"), is_name("J_a"), is_name("j'"), is_name("1j"), is_name("a-b")
-    (True, True, True, False, False)
-    """
-    if not text or not (_is_start(text[0])):
-        return False
-    body = text.rstrip("'")
-    return all(_is_body(ch) for ch in body)
-
-
-def _is_start(ch: str) -> bool:
-    return ch == "_" or ("a" <= ch <= "z") or ("A" <= ch <= "Z")
-
-
-def _is_body(ch: str) -> bool:
-    return _is_start(ch) or ("0" <= ch <= "9")
 
 
 @dataclass

@@ -26,11 +26,31 @@ from recouple.errors import SchemeMismatch
 if TYPE_CHECKING:  # networkx is only needed by to_networkx
     import networkx as nx
 
-__all__ = ["MAX_LEAVES", "Coupling", "Leaf", "Node", "check_scheme", "to_networkx"]
+__all__ = ["MAX_LEAVES", "Coupling", "Leaf", "Node", "check_scheme", "is_name", "to_networkx"]
 
 #: The largest number of angular momenta a scheme may couple.  Deep trees are
 #: walked recursively, and no practical recoupling has more momenta than this.
 MAX_LEAVES = 256
+
+
+def is_name(text: str) -> bool:
+    """True when ``text`` is a valid leaf or label name.
+
+    >>> is_name("j12"), is_name("J_a"), is_name("j'"), is_name("1j"), is_name("a-b")
+    (True, True, True, False, False)
+    """
+    if not text or not (_is_start(text[0])):
+        return False
+    body = text.rstrip("'")
+    return all(_is_body(ch) for ch in body)
+
+
+def _is_start(ch: str) -> bool:
+    return ch == "_" or ("a" <= ch <= "z") or ("A" <= ch <= "Z")
+
+
+def _is_body(ch: str) -> bool:
+    return _is_start(ch) or ("0" <= ch <= "9")
 
 
 @dataclass(frozen=True, slots=True)
@@ -171,6 +191,13 @@ def check_scheme(node: Node) -> Coupling:
         raise SchemeMismatch(
             f"a scheme needs at least two angular momenta coupled in brackets, got {node!s}"
         )
+    for part in node.nodes():
+        name = part.label
+        if not isinstance(name, str) or not is_name(name):
+            raise SchemeMismatch(
+                f"{name!r} is not a valid name (a letter or '_', then letters, digits, '_', "
+                "and trailing primes)"
+            )
     leaves = node.leaves()
     if len(leaves) > MAX_LEAVES:
         raise SchemeMismatch(
