@@ -281,7 +281,7 @@ BAD_INPUT = [
     (["symbol", "9j", "1", "2", "3", "1", "2", "3"], "takes 9 entries, got 6"),
     (["symbol", "6j", "1", "2", "3", "1/3", "2", "3"], "'1/3'"),
     (["frobnicate"], "invalid choice"),
-    (["derive", *THREE, "--max-expansions", "many"], "invalid int value"),
+    (["derive", *THREE, "--max-expansions", "many"], "expected a whole number >= 0"),
 ]
 
 
