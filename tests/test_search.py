@@ -282,6 +282,68 @@ def test_lower_bound_admissible_exhaustive(n: int) -> None:
             assert len(source - target) <= lb <= d
 
 
+def _matching_bound(source: frozenset[int], target: frozenset[int]) -> int:
+    """2a - nu: a minus-one-per-crossing-pair bound, by brute force over matchings."""
+    gone = sorted(source - target)
+    new = sorted(target - source)
+
+    def crosses(a: int, b: int) -> bool:
+        return bool(a & b and a & ~b and b & ~a)
+
+    def best(i: int, used: frozenset[int]) -> int:
+        if i == len(gone):
+            return 0
+        skip = best(i + 1, used)
+        take = [
+            1 + best(i + 1, used | {j})
+            for j, t in enumerate(new)
+            if j not in used and crosses(gone[i], t)
+        ]
+        return max([skip, *take])
+
+    return 2 * len(gone) - best(0, frozenset())
+
+
+@pytest.mark.parametrize("n", [6])
+def test_lower_bound_beats_matching_and_fallback_admissible(
+    n: int, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The order bound is at least the matching bound, and its cheap fallback for large
+    # residues (forced here with _BRANCH_BUDGET = 0) is still admissible (BFS distances).
+    from recouple.recoupling import search
+
+    rng = random.Random(99 + n)
+    stronger = 0
+    for s in one_tree_per_shape(n):
+        dist = bfs(s)
+        source = ref_clusters(s)
+        for t in rng.sample(sorted(dist, key=repr), 60):
+            target = ref_clusters(t)
+            full = lower_bound(source, target, n)
+            matching = _matching_bound(source, target)
+            assert matching <= full <= dist[t]
+            stronger += full > matching
+            with monkeypatch.context() as m:
+                m.setattr(search, "_BRANCH_BUDGET", 0)
+                crude = lower_bound(source, target, n)
+            assert len(source - target) <= crude <= full
+    assert stronger > 0  # the order bound does add something
+
+
+@pytest.mark.parametrize("n", [8, 9])
+def test_lower_bound_admissible_random(n: int) -> None:
+    # Beyond exhaustive sizes: the bound never exceeds the proven optimum.
+    rng = random.Random(314 + n)
+    for _ in range(8 if n == 8 else 3):
+        source, target = random_clusters(n, rng), random_clusters(n, rng)
+        result = shortest_path(source, target, n, max_expansions=None, max_seconds=None)
+        assert result.optimal
+        assert lower_bound(source, target, n) <= result.steps
+        for tree in result.path:  # and along the optimal path, to the target
+            rest = result.steps - result.path.index(tree)
+            assert lower_bound(tree, target, n) <= rest
+
+
 def _min_max_sums_over_shortest(s: Ref, t: Ref) -> tuple[int, int]:
     """Fewest and most sums over all shortest paths from s to t (reference DP)."""
     from_s = bfs(s)

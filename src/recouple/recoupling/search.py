@@ -284,11 +284,11 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     outside the target.  Hence at least ``a - P`` moves create non-target clusters,
     besides the ``a`` moves creating target clusters: at least ``2a - P`` moves.
     ``P`` never exceeds the largest matching of crossing pairs, so this is at least
-    the matching bound ``2a - nu``.  ``P`` is found by peeling (a cluster that alone
-    crosses some target cluster can go first without loss: it scores, and putting it
-    earlier only helps the others), then an exact recursion over subsets of the rest
-    (at most ``_DP_MAX`` clusters; above that the rest is bounded by "the first of
-    each remaining group cannot score", still admissible).
+    the matching bound ``2a - nu``.  ``P`` is found by peeling (see :func:`_peel`)
+    and an exact branch and bound over the cluster removed when no removal
+    completes a target cluster (past ``_BRANCH_BUDGET``
+    nodes a stuck group is charged one idle removal only, still
+    admissible).
 
     >>> lower_bound(frozenset({0b0011, 0b0111}), frozenset({0b1100, 0b1110}), 4)
     2
@@ -296,8 +296,8 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     return _order_bound(sorted(source - target), sorted(target - source))
 
 
-#: Largest residue (after peeling) solved exactly over its subsets.
-_DP_MAX = 12
+# Branch-and-bound nodes per stuck component before the bound falls back to one.
+_BRANCH_BUDGET = 2000
 
 
 def _order_bound(gone: list[int], new: list[int]) -> int:
@@ -312,71 +312,103 @@ def _order_bound(gone: list[int], new: list[int]) -> int:
             if s & t and s & ~t and t & ~s:
                 e |= 1 << i
         edges.append(e)
-    alive = (1 << a) - 1
-    score = 0
-    while True:  # peeling
-        edges = [e & alive for e in edges]
-        edges = [e for e in edges if e]
+    # 2a - P = a + (fewest removals that complete no target cluster)
+    return a + _fewest_idle(tuple(edges), (1 << a) - 1)
+
+
+def _peel(edges: tuple[int, ...], alive: int) -> tuple[int, int]:
+    """Remove every cluster that now completes a target cluster, repeatedly.
+
+    Returns (alive after peeling, idle removals forced: clusters left in no edge).
+    Peeling first loses nothing: a cluster that alone is left crossing some target
+    cluster scores whenever it goes, and removing it earlier only shrinks the others'
+    remaining sets.
+    """
+    while True:
         single = 0
+        used = 0
         for e in edges:
-            if e & (e - 1) == 0:
-                single |= e
+            r = e & alive
+            used |= r
+            if r and r & (r - 1) == 0:
+                single |= r
         if not single:
-            break
-        score += single.bit_count()
+            idle = alive & ~used  # in no open edge: removing them never scores
+            return alive & used, idle.bit_count()
         alive &= ~single
-    used = 0
-    for e in edges:
-        used |= e
-    alive &= used  # a cluster crossing no remaining target cluster never scores
-    k = alive.bit_count()
-    if k == 0:
-        return 2 * a - score
-    idx = [i for i in range(a) if alive >> i & 1]
-    cedges = []
-    for e in set(edges):
-        c = 0
-        for j, i in enumerate(idx):
-            if e >> i & 1:
-                c |= 1 << j
-        cedges.append(c)
-    if k > _DP_MAX:
-        # each connected group of the rest: its first removal cannot score
-        groups = 0
-        left = (1 << k) - 1
-        while left:
-            comp = left & -left
-            grown = True
-            while grown:
-                grown = False
-                for e in cedges:
-                    if e & comp and e & ~comp:
-                        comp |= e
-                        grown = True
-            left &= ~comp
-            groups += 1
-        return 2 * a - score - (k - groups)
-    by_v = [[e for e in cedges if e >> j & 1] for j in range(k)]
-    full = (1 << k) - 1
-    f = [-1] * (1 << k)
-    f[0] = 0
-    for d in range(1 << k):
-        fd = f[d]
-        if fd < 0:
-            continue
-        rest = full & ~d
+
+
+def _fewest_idle(edges: tuple[int, ...], alive: int) -> int:
+    """Fewest removals that complete no target cluster, over all removal orders.
+
+    Exact branch and bound over the cluster removed while stuck (no cluster scores),
+    component by component; each stuck component costs at least one idle removal.
+    """
+    alive, idle = _peel(edges, alive)
+    total = idle
+    for comp in _components(edges, alive):
+        total += _component_idle(edges, comp)
+    return total
+
+
+def _components(edges: tuple[int, ...], alive: int) -> list[int]:
+    comps = []
+    left = alive
+    while left:
+        comp = left & -left
+        grown = True
+        while grown:
+            grown = False
+            for e in edges:
+                r = e & alive
+                if r & comp and r & ~comp:
+                    comp |= r
+                    grown = True
+        left &= ~comp
+        comps.append(comp)
+    return comps
+
+
+def _component_idle(edges: tuple[int, ...], comp: int) -> int:
+    """Fewest idle removals for one stuck connected component (at least one)."""
+    local = tuple(e & comp for e in edges if e & comp)
+    best = comp.bit_count()  # removing everything idle is always possible
+    seen: dict[int, int] = {}
+    budget = [_BRANCH_BUDGET]
+
+    def rec(alive: int, cost: int) -> None:
+        nonlocal best
+        alive, idle = _peel(local, alive)
+        cost += idle
+        if not alive:
+            best = min(best, cost)
+            return
+        comps = _components(local, alive)
+        if cost + len(comps) >= best or seen.get(alive, best + 1) <= cost:
+            return
+        seen[alive] = cost
+        budget[0] -= 1
+        if budget[0] < 0:  # give up exactness: keep the admissible part
+            return
+        # components are independent, so branching within one of them is complete;
+        # clusters in most open edges first (a good incumbent early prunes more)
+        comp0 = comps[0]
+        order = []
+        rest = comp0
         while rest:
             bit = rest & -rest
             rest ^= bit
-            nd = d | bit
-            v = fd
-            for e in by_v[bit.bit_length() - 1]:
-                if e & ~nd == 0:
-                    v += 1
-                    break
-            if v > f[nd]:
-                f[nd] = v
-    return 2 * a - score - f[full]
+            order.append((-sum(1 for e in local if e & alive & bit), bit))
+        order.sort()
+        for _, bit in order:
+            rec(alive & ~bit, cost + 1)
+            if best <= 1:  # one idle removal per stuck component is the floor
+                return
+
+    rec(comp, 0)
+    if budget[0] < 0:
+        return 1  # out of branching budget: one idle removal is certain
+    return best
 
 
 # ---------------------------------------------------------------------------
@@ -441,7 +473,16 @@ def _astar(
     tgt = target
     tgt_list = sorted(target)
 
+    memo: dict[tuple[int, ...], int] = {}
+
     def h(cl: list[int]) -> int:
+        gone_key = tuple(c for c in cl if c not in tgt)
+        if gone_key in memo:  # the bound depends only on the clusters to remove
+            return memo[gone_key]
+        memo[gone_key] = value = h_raw(cl)
+        return value
+
+    def h_raw(cl: list[int]) -> int:
         have = set(cl)
         gone = [c for c in cl if c not in tgt]
         new = [c for c in tgt_list if c not in have]
