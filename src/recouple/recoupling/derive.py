@@ -20,7 +20,7 @@ from recouple.recoupling.formula import Formula, simplify
 from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
 from recouple.recoupling.search import SearchResult, shortest_path
 from recouple.schemes.notation import parse
-from recouple.schemes.tree import Coupling, Node, check_scheme
+from recouple.schemes.tree import Coupling, Leaf, Node, check_scheme
 
 __all__ = ["Derivation", "as_scheme", "check_pair", "derive"]
 
@@ -221,8 +221,13 @@ def _check_budget(max_expansions: object, max_seconds: object) -> None:
 def _node_masks(tree: Coupling, bit: dict[str, int]) -> dict[int, Node]:
     """Every node of ``tree`` by the bitmask of its leaves."""
     out: dict[int, Node] = {}
-    for node in tree.nodes():
-        out[sum(bit[leaf] for leaf in node.leaves())] = node
+
+    def walk(node: Node) -> int:
+        mask = bit[node.label] if isinstance(node, Leaf) else walk(node.left) | walk(node.right)
+        out[mask] = node
+        return mask
+
+    walk(tree)
     return out
 
 

@@ -173,15 +173,14 @@ def simplify(formula: Formula) -> Formula:
     """Canonical phases and symbols, then 9j recognition; returns an equal formula."""
     formula = _standardise(formula)
     changed = True
-    while changed:
+    while changed:  # one fold can enable another; folding keeps the phase normal
         changed = False
         for x in formula.sums:
             folded = _fold_ninej(formula, x)
             if folded is not None:
-                formula = _standardise(folded)
+                formula = folded
                 changed = True
-                break
-    return _rename_sums(formula)
+    return _rename_sums(_standardise(formula) if formula.ninejs else formula)
 
 
 def _rank(order: tuple[str, ...]) -> dict[str, int]:
