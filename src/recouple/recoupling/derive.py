@@ -307,15 +307,14 @@ class _Walk:
         node = self._node(removed)
         assert isinstance(node, Coupling)
         parent = _parent_of(self.current, node.label)
-        # Bring the parent to ((X Y)e, Z)f with Y the part that joins Z.
-        if parent.left.label != node.label:
-            self._apply(exchange_at(self.current, parent.label))
-        node = self._node(removed)
-        assert isinstance(node, Coupling)
-        if self._mask(node.left) & added:  # the first part must be X, the one left behind
+        # ((X Y)e, Z)f -> (X,(Y Z)g)f when e is the first part, and
+        # (Z,(Y X)e)f -> ((Z Y)g, X)f when it is the second: the part Y that joins Z
+        # must stand next to Z, which one exchange inside e arranges if needed.
+        first = parent.left.label == node.label
+        joining = node.right if first else node.left
+        if not self._mask(joining) & added:
             self._apply(exchange_at(self.current, node.label))
-        parent = _parent_of(self.current, node.label)
-        self._apply(racah_at(self.current, parent.label, new_label=label))
+        self._apply(racah_at(self.current, parent.label, new_label=label, first=first))
 
     def _ninej(self, removed: list[int], added: list[int], labels: dict[int, str]) -> None:
         """((A B)e, (C D)f)g -> ((A C)x, (B D)y)g, with exchanges first where needed."""

@@ -198,19 +198,22 @@ def exchange_at(tree: Coupling, label: str) -> Exchange:
     return Exchange(tree, after, label, node.left.label, node.right.label)
 
 
-def racah_at(tree: Coupling, label: str, *, new_label: str) -> RacahMove:
+def racah_at(tree: Coupling, label: str, *, new_label: str, first: bool | None = None) -> RacahMove:
     """The Racah move at the coupling ``label``, which must be ``((X Y)e, Z)f`` or ``(X,(Y Z)g)f``.
 
-    If ``label`` names ``f`` with a coupled first part, ``((X Y)e, Z)f -> (X,(Y Z)g)f``;
-    if it names ``f`` whose first part is a leaf and second a coupling, the reverse.
-    Use :func:`exchange_at` first to bring the parts into one of these shapes.
+    ``first=True`` re-associates the first part, ``((X Y)e, Z)f -> (X,(Y Z)g)f``;
+    ``first=False`` the second, ``(X,(Y Z)g)f -> ((X Y)e, Z)f``.  Left as None,
+    the first part is taken when it is a coupling.  Use :func:`exchange_at` first
+    to bring the parts into one of these shapes.
 
     >>> from recouple.schemes import parse
     >>> str(racah_at(parse("(a,(b,c)g)J"), "J", new_label="e").after)
     '((a,b)e,c)J'
     """
     node = _find(tree, label)
-    if isinstance(node.left, Coupling):
+    if first is None:
+        first = isinstance(node.left, Coupling)
+    if first and isinstance(node.left, Coupling):
         inner = node.left
         x, y, z = inner.left, inner.right, node.right
         new = Coupling(x, Coupling(y, z, new_label), node.label)
@@ -218,7 +221,7 @@ def racah_at(tree: Coupling, label: str, *, new_label: str) -> RacahMove:
         return RacahMove(
             tree, after, x.label, y.label, z.label, inner.label, node.label, new_label, True
         )
-    if isinstance(node.right, Coupling):
+    if not first and isinstance(node.right, Coupling):
         inner = node.right
         x, y, z = node.left, inner.left, inner.right
         new = Coupling(Coupling(x, y, new_label), z, node.label)
@@ -227,7 +230,8 @@ def racah_at(tree: Coupling, label: str, *, new_label: str) -> RacahMove:
         return RacahMove(
             tree, after, x.label, y.label, z.label, new_label, node.label, inner.label, False
         )
-    raise SchemeMismatch(f"no Racah move at {label!r}: both its parts are leaves")
+    which = "first" if first else "second"
+    raise SchemeMismatch(f"no Racah move at {label!r}: its {which} part is not a coupling")
 
 
 def ninej_at(tree: Coupling, label: str, *, new_labels: tuple[str, str]) -> NineJMove:
