@@ -293,14 +293,18 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     >>> lower_bound(frozenset({0b0011, 0b0111}), frozenset({0b1100, 0b1110}), 4)
     2
     """
-    return _order_bound(sorted(source - target), sorted(target - source))
+    # Beyond the exact search's reach the bound is only reported, so it gets a small
+    # branching budget: still admissible, and cheap at 100 leaves.
+    budget = _BRANCH_BUDGET if n <= EXACT_MAX_LEAVES else _LARGE_BRANCH_BUDGET
+    return _order_bound(sorted(source - target), sorted(target - source), budget)
 
 
 # Branch-and-bound nodes per stuck component before the bound falls back to one.
 _BRANCH_BUDGET = 2000
+_LARGE_BRANCH_BUDGET = 20
 
 
-def _order_bound(gone: list[int], new: list[int]) -> int:
+def _order_bound(gone: list[int], new: list[int], budget: int = _BRANCH_BUDGET) -> int:
     """``2a - P`` of :func:`lower_bound` for the clusters to remove and to create."""
     a = len(gone)
     if a == 0:
@@ -313,7 +317,7 @@ def _order_bound(gone: list[int], new: list[int]) -> int:
                 e |= 1 << i
         edges.append(e)
     # 2a - P = a + (fewest removals that complete no target cluster)
-    return a + _fewest_idle(tuple(edges), (1 << a) - 1)
+    return a + _fewest_idle(tuple(edges), (1 << a) - 1, budget)
 
 
 def _peel(edges: tuple[int, ...], alive: int) -> tuple[int, int]:
@@ -338,7 +342,7 @@ def _peel(edges: tuple[int, ...], alive: int) -> tuple[int, int]:
         alive &= ~single
 
 
-def _fewest_idle(edges: tuple[int, ...], alive: int) -> int:
+def _fewest_idle(edges: tuple[int, ...], alive: int, budget: int = _BRANCH_BUDGET) -> int:
     """Fewest removals that complete no target cluster, over all removal orders.
 
     Exact branch and bound over the cluster removed while stuck (no cluster scores),
@@ -347,7 +351,7 @@ def _fewest_idle(edges: tuple[int, ...], alive: int) -> int:
     alive, idle = _peel(edges, alive)
     total = idle
     for comp in _components(edges, alive):
-        total += _component_idle(edges, comp)
+        total += _component_idle(edges, comp, budget)
     return total
 
 
@@ -369,12 +373,12 @@ def _components(edges: tuple[int, ...], alive: int) -> list[int]:
     return comps
 
 
-def _component_idle(edges: tuple[int, ...], comp: int) -> int:
+def _component_idle(edges: tuple[int, ...], comp: int, branch_budget: int = _BRANCH_BUDGET) -> int:
     """Fewest idle removals for one stuck connected component (at least one)."""
     local = tuple(e & comp for e in edges if e & comp)
     best = comp.bit_count()  # removing everything idle is always possible
     seen: dict[int, int] = {}
-    budget = [_BRANCH_BUDGET]
+    budget = [branch_budget]
 
     def rec(alive: int, cost: int) -> None:
         nonlocal best
