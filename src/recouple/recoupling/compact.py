@@ -40,7 +40,7 @@ __all__ = ["COMPACT_MAX_EXPANSIONS", "COMPACT_MAX_LEAVES", "CompactResult", "com
 #: Largest number of leaves for which the compact search is run by default.
 COMPACT_MAX_LEAVES = 8
 #: Default budget of expanded states (n = 8 has 135 135 trees in all; CONVENTIONS 5.1).
-COMPACT_MAX_EXPANSIONS = 20_000
+COMPACT_MAX_EXPANSIONS = 5_000
 
 Tree = frozenset[int]
 
@@ -97,7 +97,7 @@ def compact_path(
     n: int,
     *,
     max_expansions: int = COMPACT_MAX_EXPANSIONS,
-    max_seconds: float = 1.0,
+    max_seconds: float = 0.3,
     below_sums: int | None = None,
 ) -> CompactResult:
     """The cheapest path by (sums, symbols, Racah moves).

@@ -304,8 +304,10 @@ _BRANCH_BUDGET = 2000
 _LARGE_BRANCH_BUDGET = 20
 
 
-def _order_bound(gone: list[int], new: list[int], budget: int = _BRANCH_BUDGET) -> int:
+def _order_bound(gone: list[int], new: list[int], budget: int | None = None) -> int:
     """``2a - P`` of :func:`lower_bound` for the clusters to remove and to create."""
+    if budget is None:
+        budget = _BRANCH_BUDGET
     a = len(gone)
     if a == 0:
         return 0
