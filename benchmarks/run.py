@@ -28,6 +28,7 @@ from _common import VERDICTS, heading  # noqa: E402
 
 
 def _sections() -> list[tuple[str, Callable[[bool], None] | None, str]]:
+    import bench_compact
     import bench_evaluate
     import bench_matrix
     import bench_symbols
@@ -36,6 +37,7 @@ def _sections() -> list[tuple[str, Callable[[bool], None] | None, str]]:
         ("symbols", bench_symbols.run, ""),
         ("matrix", bench_matrix.run, ""),
         ("derive, memory, evaluate", bench_evaluate.run, ""),
+        ("fewest summations", bench_compact.run, ""),
     ]
     # The search benchmark belongs to the search's owner; run it when it is there.
     if (HERE / "bench_search.py").exists():

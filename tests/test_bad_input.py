@@ -694,8 +694,8 @@ def test_long_valid_text_parses() -> None:
 
 
 # ---------------------------------------------------------------------------
-# Known bugs, pinned: each flips to a failure (strict xfail) once fixed, so the
-# marker is removed with the fix.  Proposed fixes are in the report to the lead.
+# Once-known bugs, now fixed: regression tests for each (first pinned as strict
+# xfails, unmarked with the fix).
 # ---------------------------------------------------------------------------
 
 
@@ -706,7 +706,6 @@ def test_bug_many_digit_value_names_the_limit() -> None:
     assert len(info.value.one_line()) < 200  # the message does not echo 5000 digits
 
 
-@pytest.mark.xfail(strict=True, reason="bug: evaluate(None) raises TypeError")
 def test_bug_values_not_a_mapping() -> None:
     with pytest.raises(BadValue, match="values must map each label"):
         formula().evaluate(None)  # type: ignore[arg-type]

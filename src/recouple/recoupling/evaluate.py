@@ -53,6 +53,8 @@ Slots = tuple[int, ...]
 
 def check_values(formula: Formula, values: Mapping[str, object]) -> dict[str, int]:
     """The doubled value of every free label, or a :class:`BadValue` naming the problem."""
+    if not isinstance(values, Mapping):
+        raise BadValue(f"values must map each label to its value, got {values!r}")
     free = formula.free_labels
     unknown = [name for name in values if name not in free]
     if unknown:
