@@ -26,6 +26,7 @@ from __future__ import annotations
 import math
 from fractions import Fraction
 from functools import lru_cache
+from operator import itemgetter
 
 from recouple.numbers._integers import (
     fact_parity_masks,
@@ -36,6 +37,12 @@ from recouple.numbers._integers import (
 from recouple.numbers.radicals import Radical, radical_from_parts
 from recouple.numbers.spins import parse_projection, parse_spin
 from recouple.symbols.canonical import NINEJ_INDEX_MAPS, SIXJ_INDEX_MAPS
+
+# itemgetters build each symmetric arrangement in C: the standard-form key of a
+# symbol otherwise costs more than its Racah sum at small j.
+_SIXJ_GETTERS = tuple(itemgetter(*m) for m in SIXJ_INDEX_MAPS)
+_NINEJ_GETTERS = tuple(itemgetter(*m) for m, _ in NINEJ_INDEX_MAPS)
+_NINEJ_ODD = tuple(odd for _, odd in NINEJ_INDEX_MAPS)
 
 __all__ = [
     "CACHE_SIZE",
@@ -263,7 +270,7 @@ def sixj_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> Radical:
     for x, y, z in ((a, b, c), (a, e, f), (d, b, f), (d, e, c)):
         if not _tri(x, y, z):
             return _ZERO
-    key = min(tuple(entries[i] for i in m) for m in SIXJ_INDEX_MAPS)
+    key = min([get(entries) for get in _SIXJ_GETTERS])
     return _sixj_canonical(key)
 
 
@@ -341,7 +348,9 @@ def ninej_doubled(
     for x, y, z in ((a, b, c), (d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)):
         if not _tri(x, y, z):
             return _ZERO
-    key, odd = min((tuple(entries[k] for k in m), odd) for m, odd in NINEJ_INDEX_MAPS)
+    keys = [get(entries) for get in _NINEJ_GETTERS]
+    key = min(keys)
+    odd = _NINEJ_ODD[keys.index(key)]
     value = _ninej_canonical(key)
     # (-1)^R with R = sum of the entries (an integer: each row triad has an integer sum).
     if odd and (sum(entries) // 2) & 1:
