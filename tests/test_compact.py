@@ -166,3 +166,67 @@ def test_switching_the_compact_search_off(compact: bool) -> None:
     d = derive(a, b, compact=compact)
     assert len(d.formula.sums) == 1
     assert d.compact_status == ("proven: no form with fewer sums" if compact else "not searched")
+
+
+# --- identities that fold sums: checked on formulas of deliberately long paths -----
+
+
+def _formula_along(a_text: str, b_text: str, path_clusters: list[list[str]]):
+    """The simplified formula of the path through the given trees (cluster lists)."""
+    from recouple.recoupling.derive import _Walk
+
+    a, b = parse(a_text), parse(b_text)
+    bit = {leaf: 1 << i for i, leaf in enumerate(a.leaves())}
+    full = (1 << len(bit)) - 1
+
+    def mask(cluster: frozenset[str] | str) -> int:
+        return sum(bit[leaf] for leaf in cluster)
+
+    b_named = {mask(c): label for c, label in b.clusters().items()}
+    path = tuple(frozenset(mask(c.split()) for c in tree) for tree in path_clusters)
+    assert all(full not in t for t in path)
+    walk = _Walk(a, b, bit, b_named, path)
+    from recouple.recoupling.formula import simplify
+
+    return a, b, walk.formula(), simplify(walk.formula())
+
+
+def test_racah_sum_rule_folds_a_two_move_detour() -> None:
+    # ((a,b)e,c)J -> ((a,c)x,b)J -> (a,(b,c)f)J: two moves where one suffices; the
+    # sum over x of two 6j collapses by the Racah sum rule (DLMF 34.5.15) to one 6j.
+    a, b, raw, folded = _formula_along("((a,b)e,c)J", "(a,(b,c)f)J", [["a b"], ["a c"], ["b c"]])
+    assert len(raw.sums) == 1
+    assert len(raw.sixjs) == 2
+    assert folded.counts() == {"sums": 0, "6j": 1, "9j": 0}
+    rng = random.Random(34515)
+    checked = 0
+    for _ in range(40):
+        values = random_values(a, b, rng, leaf_doubled=(1, 2, 3))
+        if values is None:
+            continue
+        assert folded.evaluate(values) == project(a, b, values, exact=True)
+        checked += 1
+    assert checked >= 30
+
+
+def test_biedenharn_elliott_folds_the_long_way_round_the_pentagon() -> None:
+    # (((a,b)e,c)f,d)J -> ((a,(b,c)x)f,d)J -> (a,((b,c)x,d)g)J -> (a,(b,(c,d)h)g)J:
+    # three moves where two suffice; the sum over x of three 6j is the left side of
+    # the Biedenharn-Elliott identity (DLMF 34.5.16) and folds to two 6j.
+    a, b, raw, folded = _formula_along(
+        "(((a,b)e,c)f,d)J",
+        "(a,(b,(c,d)h)g)J",
+        [["a b", "a b c"], ["b c", "a b c"], ["b c", "b c d"], ["c d", "b c d"]],
+    )
+    assert len(raw.sums) == 1
+    assert len(raw.sixjs) == 3
+    assert folded.counts() == {"sums": 0, "6j": 2, "9j": 0}
+    rng = random.Random(34516)
+    checked = 0
+    for _ in range(40):
+        values = random_values(a, b, rng, leaf_doubled=(1, 2, 3))
+        if values is None:
+            continue
+        assert folded.evaluate(values) == project(a, b, values, exact=True)
+        checked += 1
+    assert checked >= 30

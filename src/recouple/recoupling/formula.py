@@ -24,14 +24,20 @@ valid for *every* allowed assignment of the labels (docs/conventions.md):
 
 from __future__ import annotations
 
+import itertools
 from collections import Counter
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Iterator, Mapping
 from dataclasses import dataclass, field, replace
 from itertools import combinations
 from typing import TYPE_CHECKING, Any
 
 from recouple.schemes.tree import Coupling
-from recouple.symbols.canonical import canonical_ninej, canonical_sixj, ninej_arrangements
+from recouple.symbols.canonical import (
+    canonical_ninej,
+    canonical_sixj,
+    ninej_arrangements,
+    sixj_arrangements,
+)
 
 if TYPE_CHECKING:
     from recouple.numbers.radicals import Radical
@@ -170,17 +176,130 @@ def normal_phase(
 
 
 def simplify(formula: Formula) -> Formula:
-    """Canonical phases and symbols, then 9j recognition; returns an equal formula."""
+    """Canonical phases and symbols, then sums folded by identities; an equal formula.
+
+    Each summation variable is tried against the 9j expansion (DLMF 34.6.2), the
+    Racah sum rule (DLMF 34.5.15) and the Biedenharn-Elliott identity (DLMF
+    34.5.16); a match replaces the sum by its closed form.
+    """
     formula = _standardise(formula)
     changed = True
     while changed:  # one fold can enable another; folding keeps the phase normal
         changed = False
         for x in formula.sums:
             folded = _fold_ninej(formula, x)
+            for identity in _IDENTITIES:
+                if folded is None:
+                    folded = _fold_identity(formula, x, identity)
             if folded is not None:
                 formula = folded
                 changed = True
-    return _rename_sums(_standardise(formula) if formula.ninejs else formula)
+    return _rename_sums(_standardise(formula))
+
+
+@dataclass(frozen=True, slots=True)
+class _Identity:
+    """``sum_X (-1)^phase (2X+1) prod lhs = prod rhs``, written in letters; X is summed."""
+
+    name: str
+    lhs: tuple[tuple[str, ...], ...]
+    phase: tuple[str, ...]
+    rhs: tuple[tuple[str, ...], ...]
+
+
+_IDENTITIES = (
+    # Racah sum rule, DLMF 34.5.15 (CONVENTIONS 4.2, verified there numerically):
+    # sum_j (-1)^(j+p+q) (2j+1) {a b j; c d p}{a b j; d c q} = {a d p; b c q}.
+    _Identity(
+        "Racah sum rule",
+        (("a", "b", "X", "c", "d", "p"), ("a", "b", "X", "d", "c", "q")),
+        ("X", "p", "q"),
+        (("a", "d", "p", "b", "c", "q"),),
+    ),
+    # Biedenharn-Elliott identity, DLMF 34.5.16 (CONVENTIONS 4.3, verified there):
+    # sum_j (-1)^(S+j) (2j+1) {a b j; c d p}{c d j; e f q}{e f j; b a r}
+    #   = {p q r; e a d}{p q r; f b c},  S = a+b+c+d+e+f+p+q+r.
+    _Identity(
+        "Biedenharn-Elliott identity",
+        (
+            ("a", "b", "X", "c", "d", "p"),
+            ("c", "d", "X", "e", "f", "q"),
+            ("e", "f", "X", "b", "a", "r"),
+        ),
+        ("X", "a", "b", "c", "d", "e", "f", "p", "q", "r"),
+        (("p", "q", "r", "e", "a", "d"), ("p", "q", "r", "f", "b", "c")),
+    ),
+)
+
+
+def _unify(
+    template: tuple[str, ...], actual: tuple[str, ...], x: str, bound: dict[str, str]
+) -> dict[str, str] | None:
+    """Extend the letter -> label map so that ``template`` reads ``actual``, or None."""
+    out = dict(bound)
+    for letter, label in zip(template, actual, strict=True):
+        if (letter == "X") != (label == x):
+            return None
+        have = out.get(letter)
+        if have is None:
+            out[letter] = label
+        elif have != label:
+            return None
+    return out
+
+
+def _fold_identity(f: Formula, x: str, identity: _Identity) -> Formula | None:
+    """Replace the sum over ``x`` by the identity's closed form where the pattern fits.
+
+    Every arrangement of every 6j holding x is tried against the identity's
+    left-hand side (the 24 symmetries of the 6j carry no phase, DLMF 34.5.8);
+    the phase left over must not depend on x.
+    """
+    hats = dict(f.hats)
+    if hats.get(x) != 2 or any(x in d for d in f.deltas) or any(x in n for n in f.ninejs):
+        return None
+    with_x = [s for s in f.sixjs if x in s]
+    if len(with_x) != len(identity.lhs) or any(s.count(x) != 1 for s in with_x):
+        return None
+    for order in itertools.permutations(with_x):
+        for mapping in _match(identity.lhs, order, x, {}):
+            phase: Counter[str] = Counter(dict(f.phase))
+            for letter in identity.phase:
+                phase[mapping[letter]] -= 1
+            reduced, constant = normal_phase(phase, f.constant, dict(f.clusters))
+            if x in reduced:
+                continue
+            remaining = list(f.sixjs)
+            for s in with_x:
+                remaining.remove(s)
+            rhs = [tuple(mapping[letter] for letter in s) for s in identity.rhs]
+            del hats[x]
+            return replace(
+                f,
+                sums=tuple(s for s in f.sums if s != x),
+                order=tuple(label for label in f.order if label != x),
+                phase=tuple(reduced.items()),
+                constant=constant,
+                hats=tuple(hats.items()),
+                sixjs=(*remaining, *rhs),  # type: ignore[arg-type]
+            )
+    return None
+
+
+def _match(
+    templates: tuple[tuple[str, ...], ...],
+    actual: tuple[SixJEntries, ...],
+    x: str,
+    bound: dict[str, str],
+) -> Iterator[dict[str, str]]:
+    """Every letter map under which the templates read the actual 6j symbols in order."""
+    if not templates:
+        yield bound
+        return
+    for arrangement in sixj_arrangements(actual[0]):
+        mapping = _unify(templates[0], arrangement, x, bound)
+        if mapping is not None:
+            yield from _match(templates[1:], actual[1:], x, mapping)
 
 
 def _rank(order: tuple[str, ...]) -> dict[str, int]:
