@@ -191,6 +191,19 @@ def _formula_along(a_text: str, b_text: str, path_clusters: list[list[str]]):
     return a, b, walk.formula(), simplify(walk.formula())
 
 
+def _check_against_projection(formula, a, b, *, seed: int) -> None:
+    """The formula equals direct projection, exactly, at 30+ random consistent values."""
+    rng = random.Random(seed)
+    checked = 0
+    for _ in range(40):
+        values = random_values(a, b, rng, leaf_doubled=(1, 2, 3))
+        if values is None:
+            continue
+        assert formula.evaluate(values) == project(a, b, values, exact=True)
+        checked += 1
+    assert checked >= 30
+
+
 def test_racah_sum_rule_folds_a_two_move_detour() -> None:
     # ((a,b)e,c)J -> ((a,c)x,b)J -> (a,(b,c)f)J: two moves where one suffices; the
     # sum over x of two 6j collapses by the Racah sum rule (DLMF 34.5.15) to one 6j.
@@ -198,15 +211,7 @@ def test_racah_sum_rule_folds_a_two_move_detour() -> None:
     assert len(raw.sums) == 1
     assert len(raw.sixjs) == 2
     assert folded.counts() == {"sums": 0, "6j": 1, "9j": 0}
-    rng = random.Random(34515)
-    checked = 0
-    for _ in range(40):
-        values = random_values(a, b, rng, leaf_doubled=(1, 2, 3))
-        if values is None:
-            continue
-        assert folded.evaluate(values) == project(a, b, values, exact=True)
-        checked += 1
-    assert checked >= 30
+    _check_against_projection(folded, a, b, seed=34515)
 
 
 def test_biedenharn_elliott_folds_the_long_way_round_the_pentagon() -> None:
@@ -221,12 +226,4 @@ def test_biedenharn_elliott_folds_the_long_way_round_the_pentagon() -> None:
     assert len(raw.sums) == 1
     assert len(raw.sixjs) == 3
     assert folded.counts() == {"sums": 0, "6j": 2, "9j": 0}
-    rng = random.Random(34516)
-    checked = 0
-    for _ in range(40):
-        values = random_values(a, b, rng, leaf_doubled=(1, 2, 3))
-        if values is None:
-            continue
-        assert folded.evaluate(values) == project(a, b, values, exact=True)
-        checked += 1
-    assert checked >= 30
+    _check_against_projection(folded, a, b, seed=34516)

@@ -269,21 +269,35 @@ def _fold_identity(f: Formula, x: str, identity: _Identity) -> Formula | None:
             reduced, constant = normal_phase(phase, f.constant, dict(f.clusters))
             if x in reduced:
                 continue
-            remaining = list(f.sixjs)
-            for s in with_x:
-                remaining.remove(s)
-            rhs = [tuple(mapping[letter] for letter in s) for s in identity.rhs]
-            del hats[x]
-            return replace(
-                f,
-                sums=tuple(s for s in f.sums if s != x),
-                order=tuple(label for label in f.order if label != x),
-                phase=tuple(reduced.items()),
-                constant=constant,
-                hats=tuple(hats.items()),
-                sixjs=(*remaining, *rhs),  # type: ignore[arg-type]
-            )
+            rhs = tuple(tuple(mapping[letter] for letter in s) for s in identity.rhs)
+            return _without_sum(f, x, with_x, (reduced, constant), sixjs=rhs)  # type: ignore[arg-type]
     return None
+
+
+def _without_sum(
+    f: Formula,
+    x: str,
+    removed: list[SixJEntries],
+    phase: tuple[dict[str, int], int],
+    *,
+    sixjs: tuple[SixJEntries, ...] = (),
+    ninejs: tuple[NineJEntries, ...] = (),
+) -> Formula:
+    """``f`` with the sum over ``x`` replaced: its 6j ``removed``, the closed form added."""
+    remaining = list(f.sixjs)
+    for s in removed:
+        remaining.remove(s)
+    reduced, constant = phase
+    return replace(
+        f,
+        sums=tuple(s for s in f.sums if s != x),
+        order=tuple(label for label in f.order if label != x),
+        phase=tuple(reduced.items()),
+        constant=constant,
+        hats=tuple((label, p) for label, p in f.hats if label != x),
+        sixjs=(*remaining, *sixjs),
+        ninejs=(*f.ninejs, *ninejs),
+    )
 
 
 def _match(
@@ -378,23 +392,10 @@ def _fold_ninej(f: Formula, x: str) -> Formula | None:
         new_phase: Counter[str] = Counter(phase)
         new_phase[x] -= 2
         del odd  # the 9j is kept in this very arrangement: no phase from symmetry here
-        remaining = list(f.sixjs)
-        for s in with_x:
-            remaining.remove(s)
-        del hats[x]
         reduced, constant = normal_phase(new_phase, f.constant, clusters)
         if x in reduced:
             return None
-        return replace(
-            f,
-            sums=tuple(s for s in f.sums if s != x),
-            order=tuple(label for label in f.order if label != x),
-            phase=tuple(reduced.items()),
-            constant=constant,
-            hats=tuple(hats.items()),
-            sixjs=tuple(remaining),
-            ninejs=(*f.ninejs, entries),
-        )
+        return _without_sum(f, x, with_x, (reduced, constant), ninejs=(entries,))
     return None
 
 
