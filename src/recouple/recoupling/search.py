@@ -508,11 +508,9 @@ def _astar(
     ]
     push = heapq.heappush
     pop = heapq.heappop
-    pops = 0
     while heap:
         f, neg_moves, _, key, g, exact = pop(heap)
-        pops += 1
-        if deadline is not None and pops % 64 == 0 and time.monotonic() > deadline:
+        if deadline is not None and time.monotonic() > deadline:  # a pop can cost 100 ms
             raise _OutOfBudget(f // _MOVE)
         if g > best_g[key] or (key in closed and g == closed_g[key]):
             continue
