@@ -148,7 +148,7 @@ def main() -> None:
         exact_sizes, exact_pairs, big_sizes, big_pairs = [4, 8], 5, [30], 2
         ks, chain = range(2, 4), range(4, 8)
     else:
-        exact_sizes, exact_pairs, big_sizes, big_pairs = [4, 8, 12, 16], 20, [30, 60, 100], 5
+        exact_sizes, exact_pairs, big_sizes, big_pairs = [4, 8, 12, 16], 6, [30, 60, 100], 3
         ks, chain = range(2, 9), range(4, 17)
     times = run_random(exact_sizes, exact_pairs, 2024, compare=True)
     times += run_random(big_sizes, big_pairs, 2025, compare=False)
