@@ -227,3 +227,15 @@ def test_biedenharn_elliott_folds_the_long_way_round_the_pentagon() -> None:
     assert len(raw.sixjs) == 3
     assert folded.counts() == {"sums": 0, "6j": 2, "9j": 0}
     _check_against_projection(folded, a, b, seed=34516)
+
+
+def test_orthogonality_folds_a_detour_that_comes_back() -> None:
+    # ((a,b)e,c)J -> ((a,(b,c)x)J -> ((a,b)e',c)J: out and back; the sum over x of
+    # (2x+1) {..e..}{..e'..} is 6j orthogonality (DLMF 34.5.14): delta(e,e').
+    a, b, raw, folded = _formula_along("((a,b)e,c)J", "((a,b)e',c)J", [["a b"], ["b c"], ["a b"]])
+    assert len(raw.sums) == 1
+    assert folded.counts() == {"sums": 0, "6j": 0, "9j": 0}
+    assert folded.deltas == (("e", "e'"),)
+    assert folded.hats == ()
+    assert str(folded) == "<((a,b)e,c)J|((a,b)e',c)J> = delta(e,e')"
+    _check_against_projection(folded, a, b, seed=34514)

@@ -42,11 +42,17 @@ def factor_texts(formula: Formula) -> list[str]:
     out: list[str] = []
     if formula.phase:
         out.append(f"(-1)^({exponent_text(formula.phase)})")
-    whole = [label for label, p in formula.hats for _ in range(p // 2)]
-    under = [label for label, p in formula.hats if p % 2]
+    whole = [label for label, p in formula.hats if p > 0 for _ in range(p // 2)]
+    under = [label for label, p in formula.hats if p > 0 and p % 2]
     out += [f"(2{label}+1)" for label in whole]
     if under:
         out.append("sqrt(" + "".join(f"(2{label}+1)" for label in under) + ")")
+    # Negative powers (from 6j orthogonality, DLMF 34.5.14) are written as powers.
+    out += [
+        f"(2{label}+1)^({p // 2})" if p % 2 == 0 else f"(2{label}+1)^({p}/2)"
+        for label, p in formula.hats
+        if p < 0
+    ]
     out += ["{{{} {} {}; {} {} {}}}".format(*s) for s in formula.sixjs]
     out += ["{{{} {} {}; {} {} {}; {} {} {}}}".format(*n) for n in formula.ninejs]
     return out

@@ -205,6 +205,9 @@ class _Identity:
     lhs: tuple[tuple[str, ...], ...]
     phase: tuple[str, ...]
     rhs: tuple[tuple[str, ...], ...]
+    rhs_hats: tuple[tuple[str, int], ...] = ()  # extra (2y+1)^(p/2) on the right
+    rhs_deltas: tuple[tuple[str, str], ...] = ()  # Kronecker deltas on the right
+    needs: tuple[tuple[str, str, str], ...] = ()  # triads the formula must already demand
 
 
 _IDENTITIES = (
@@ -228,6 +231,19 @@ _IDENTITIES = (
         ),
         ("X", "a", "b", "c", "d", "e", "f", "p", "q", "r"),
         (("p", "q", "r", "e", "a", "d"), ("p", "q", "r", "f", "b", "c")),
+    ),
+    # Orthogonality of the 6j, DLMF 34.5.14 (CONVENTIONS 4.1, verified there):
+    # sum_j (2j+1) {a b j; c d p}{a b j; c d q} = delta_pq / (2p+1), when the triads
+    # (a d p) and (c b p) hold (otherwise the left side is 0).  It is applied only
+    # when both schemes already demand those triads, so no zero is lost.
+    _Identity(
+        "orthogonality",
+        (("a", "b", "X", "c", "d", "p"), ("a", "b", "X", "c", "d", "q")),
+        (),
+        (),
+        rhs_hats=(("p", -2),),
+        rhs_deltas=(("p", "q"),),
+        needs=(("a", "d", "p"), ("c", "b", "p")),
     ),
 )
 
@@ -269,8 +285,26 @@ def _fold_identity(f: Formula, x: str, identity: _Identity) -> Formula | None:
             reduced, constant = normal_phase(phase, f.constant, dict(f.clusters))
             if x in reduced:
                 continue
+            demanded = {frozenset(t) for t in f.triads()}
+            if any(frozenset(mapping[k] for k in t) not in demanded for t in identity.needs):
+                continue
+            deltas = tuple(
+                (mapping[a], mapping[b]) for a, b in identity.rhs_deltas if mapping[a] != mapping[b]
+            )
+            if any(label in f.sums for pair in deltas for label in pair):
+                continue  # a delta may only tie free labels, which every value set fixes
             rhs = tuple(tuple(mapping[letter] for letter in s) for s in identity.rhs)
-            return _without_sum(f, x, with_x, (reduced, constant), sixjs=rhs)  # type: ignore[arg-type]
+            folded = _without_sum(f, x, with_x, (reduced, constant), sixjs=rhs)  # type: ignore[arg-type]
+            hats_after: Counter[str] = Counter(dict(folded.hats))
+            for letter, power in identity.rhs_hats:
+                hats_after[mapping[letter]] += power
+            for first, second in deltas:  # under delta(p, q) a factor in q is one in p
+                hats_after[first] += hats_after.pop(second, 0)
+            return replace(
+                folded,
+                hats=tuple((k, v) for k, v in hats_after.items() if v),
+                deltas=(*folded.deltas, *deltas),
+            )
     return None
 
 
