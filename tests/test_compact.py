@@ -239,3 +239,22 @@ def test_orthogonality_folds_a_detour_that_comes_back() -> None:
     assert folded.hats == ()
     assert str(folded) == "<((a,b)e,c)J|((a,b)e',c)J> = delta(e,e')"
     _check_against_projection(folded, a, b, seed=34514)
+
+
+def test_command_line_reports_the_saving() -> None:
+    import io
+    import json
+
+    from recouple.cli import main
+
+    a, b = SAVING[0]
+    out, err = io.StringIO(), io.StringIO()
+    assert main(["derive", a, b, "--json"], out=out, err=err) == 0
+    data = json.loads(out.getvalue())
+    assert data["sums_on_plain_path"] == 2
+    assert len(data["sums"]) == 1
+    assert data["fewer_sums_search"].startswith("fewer sums than the plain path")
+    assert data["ninej_moves_used"] >= 1
+    out = io.StringIO()
+    assert main(["derive", a, b], out=out, err=err) == 0
+    assert "a form with fewer sums than the shortest Racah path: 1 instead of 2" in out.getvalue()
