@@ -299,13 +299,26 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     return _order_bound(sorted(source - target), sorted(target - source), budget)
 
 
-# Branch-and-bound nodes per stuck component before the bound falls back to one.
+# Sub-problems solved per stuck component before the bound settles for a floor there.
 _BRANCH_BUDGET = 2000
 _LARGE_BRANCH_BUDGET = 20
 
 
-def _order_bound(gone: list[int], new: list[int], budget: int | None = None) -> int:
-    """``2a - P`` of :func:`lower_bound` for the clusters to remove and to create."""
+def _order_bound(
+    gone: list[int],
+    new: list[int],
+    budget: int | None = None,
+    memo: dict[tuple[int, ...], tuple[int, bool]] | None = None,
+) -> int:
+    """``2a - P`` of :func:`lower_bound` for the clusters to remove and to create.
+
+    ``memo`` maps a stuck component (its clusters to remove, sorted) to its exact
+    fewest idle removals.  The value depends only on those clusters once the target
+    is fixed: a target cluster absent from a tree crosses some cluster of it (a
+    binary tree is a maximal laminar family), and present ones cross none, so the
+    component's edges are the target clusters crossing its members.  One search
+    (one target) can therefore share it across all its states.
+    """
     if budget is None:
         budget = _BRANCH_BUDGET
     a = len(gone)
@@ -319,7 +332,8 @@ def _order_bound(gone: list[int], new: list[int], budget: int | None = None) -> 
                 e |= 1 << i
         edges.append(e)
     # 2a - P = a + (fewest removals that complete no target cluster)
-    return a + _fewest_idle(tuple(edges), (1 << a) - 1, budget)
+    memo = {} if memo is None else memo
+    return a + _fewest_idle(tuple(edges), gone, (1 << a) - 1, budget, memo)
 
 
 def _peel(edges: tuple[int, ...], alive: int) -> tuple[int, int]:
@@ -344,77 +358,105 @@ def _peel(edges: tuple[int, ...], alive: int) -> tuple[int, int]:
         alive &= ~single
 
 
-def _fewest_idle(edges: tuple[int, ...], alive: int, budget: int = _BRANCH_BUDGET) -> int:
+def _fewest_idle(
+    edges: tuple[int, ...],
+    labels: list[int],
+    alive: int,
+    budget: int,
+    memo: dict[tuple[int, ...], tuple[int, bool]],
+) -> int:
     """Fewest removals that complete no target cluster, over all removal orders.
 
-    Exact branch and bound over the cluster removed while stuck (no cluster scores),
-    component by component; each stuck component costs at least one idle removal.
+    After peeling, the clusters split into components (clusters linked by sharing
+    an open edge) that evolve independently, so the answer is the sum over them.  A
+    stuck component costs ``1 + min`` over the cluster removed idle of the value of
+    what remains (peeled and split again): an exact recursion, memoised per
+    component in ``memo`` (keys are the clusters ``labels`` of its members) and
+    pruned by the floor of one idle removal per component.  Past ``budget``
+    sub-problems per top component, an unsolved component counts its floor of one:
+    still admissible, and such inexact values are never stored.
     """
-    alive, idle = _peel(edges, alive)
-    total = idle
-    for comp in _components(edges, alive):
-        total += _component_idle(edges, comp, budget)
-    return total
+    nbr = [0] * len(labels)  # per cluster: every cluster sharing an edge with it
+    for e in edges:
+        r = e
+        while r:
+            b = r & -r
+            r ^= b
+            nbr[b.bit_length() - 1] |= e
 
-
-def _components(edges: tuple[int, ...], alive: int) -> list[int]:
-    comps = []
-    left = alive
-    while left:
-        comp = left & -left
-        grown = True
-        while grown:
-            grown = False
-            for e in edges:
-                r = e & alive
-                if r & comp and r & ~comp:
-                    comp |= r
-                    grown = True
-        left &= ~comp
-        comps.append(comp)
-    return comps
-
-
-def _component_idle(edges: tuple[int, ...], comp: int, branch_budget: int = _BRANCH_BUDGET) -> int:
-    """Fewest idle removals for one stuck connected component (at least one)."""
-    local = tuple(e & comp for e in edges if e & comp)
-    best = comp.bit_count()  # removing everything idle is always possible
-    seen: dict[int, int] = {}
-    budget = [branch_budget]
-
-    def rec(alive: int, cost: int) -> None:
-        nonlocal best
-        alive, idle = _peel(local, alive)
-        cost += idle
-        if not alive:
-            best = min(best, cost)
-            return
-        comps = _components(local, alive)
-        if cost + len(comps) >= best or seen.get(alive, best + 1) <= cost:
-            return
-        seen[alive] = cost
-        budget[0] -= 1
-        if budget[0] < 0:  # give up exactness: keep the admissible part
-            return
-        # components are independent, so branching within one of them is complete;
-        # clusters in most open edges first (a good incumbent early prunes more)
-        comp0 = comps[0]
-        order = []
-        rest = comp0
+    def components(alive: int) -> list[int]:
+        out = []
+        rest = alive
         while rest:
-            bit = rest & -rest
-            rest ^= bit
-            order.append((-sum(1 for e in local if e & alive & bit), bit))
-        order.sort()
-        for _, bit in order:
-            rec(alive & ~bit, cost + 1)
-            if best <= 1:  # one idle removal per stuck component is the floor
-                return
+            comp = frontier = rest & -rest
+            while frontier:
+                b = frontier & -frontier
+                frontier ^= b
+                grow = nbr[b.bit_length() - 1] & alive & ~comp
+                comp |= grow
+                frontier |= grow
+            rest &= ~comp
+            out.append(comp)
+        return out
 
-    rec(comp, 0)
-    if budget[0] < 0:
-        return 1  # out of branching budget: one idle removal is certain
-    return best
+    left = [0]
+
+    def value(comp: int, cap: int) -> tuple[int, bool]:
+        """(v, exact) for a peeled connected component: its fewest idle removals
+        when exact, else a lower bound (at least ``cap`` unless out of budget)."""
+        key = []
+        r = comp
+        while r:
+            b = r & -r
+            r ^= b
+            key.append(labels[b.bit_length() - 1])
+        k = tuple(key)
+        lo_known, exact_known = memo.get(k, (1, False))
+        if exact_known or lo_known >= cap:
+            return lo_known, exact_known
+        left[0] -= 1
+        if left[0] < 0:  # give up exactness here: keep the floor
+            return lo_known, False
+        local = [e & comp for e in edges if e & comp]
+        # clusters in most open edges first (a good incumbent early prunes more)
+        order = []
+        r = comp
+        while r:
+            b = r & -r
+            r ^= b
+            order.append((-sum(1 for e in local if e & b), b))
+        order.sort()
+        best = comp.bit_count()  # removing everything idle is always possible
+        lo = best  # least lower bound over the first removals tried
+        for _, b in order:
+            bound = min(best, cap)
+            rest, idle = _peel(edges, comp & ~b)
+            subs = components(rest)
+            total = 1 + idle + len(subs)  # each sub-component costs at least one
+            exact = True
+            for c in subs:
+                if total >= bound:
+                    exact = False  # cut off: total is only a lower bound
+                    break
+                v, ok = value(c, bound - total + 1)
+                exact = exact and ok
+                total += v - 1
+            if exact and total < best:
+                best = total  # all parts exact: this removal order is achievable
+            lo = min(lo, total)
+            if best <= 1:  # one idle removal per stuck component is the floor
+                lo = 1
+                break
+        lo = max(lo, lo_known)
+        exact = lo >= best
+        memo[k] = (best, True) if exact else (lo, False)
+        return (best, True) if exact else (lo, False)
+
+    alive, total = _peel(edges, alive)
+    for comp in components(alive):
+        left[0] = budget
+        total += value(comp, comp.bit_count())[0]
+    return total
 
 
 # ---------------------------------------------------------------------------
@@ -426,11 +468,13 @@ def _sums_of(path: tuple[frozenset[int], ...], target: frozenset[int]) -> int:
 
 
 class _OutOfBudget(Exception):
-    """The exact search ran out of budget; ``bound`` is a proven lower bound on moves."""
+    """The exact search ran out of budget; ``cost`` (packed moves and sums, see
+    :func:`_astar`) is a proven lower bound on the cost, ``bound`` its moves."""
 
-    def __init__(self, bound: int) -> None:
-        super().__init__(bound)
-        self.bound = bound
+    def __init__(self, cost: int) -> None:
+        super().__init__(cost)
+        self.cost = cost
+        self.bound = cost // _MOVE
 
 
 @dataclass(slots=True)
@@ -446,7 +490,7 @@ def _astar(
     n: int,
     max_expansions: int | None,
     deadline: float | None,
-    upper: int | None,
+    limit: int | None,
     stats: _Stats,
 ) -> tuple[frozenset[int], ...] | None:
     """A* on the lexicographic cost (moves, sums), packed as ``moves * _MOVE + sums``.
@@ -456,8 +500,12 @@ def _astar(
     state is reopened when reached more cheaply (A* stays optimal with reopening).
     A successor's bound is first estimated as its parent's minus one (pathmax:
     admissible, since neighbours' distances differ by at most one) and the real
-    bound is computed only when it reaches the top of the heap; the larger is used.  Paths of more
-    than ``upper`` moves are pruned; None means no path within ``upper``.
+    bound is computed only when it reaches the top of the heap; the larger is used.
+    The bound covers sums too: with ``h`` moves at least (``lower_bound``), at least
+    ``h - a`` of them create a non-target cluster, ``a = |C(tree) - C(target)|``
+    (the idle removals in the proof of :func:`lower_bound`), and each such move is
+    one sum; so ``h * _MOVE + h - a`` is admissible for the packed cost.  Paths of
+    packed cost ``limit`` or more are pruned; None means there is no cheaper path.
     Raises :class:`_OutOfBudget` with the smallest open f, a proven lower bound.
     """
     m = max(n - 2, 0)
@@ -480,44 +528,43 @@ def _astar(
     tgt_list = sorted(target)
 
     memo: dict[tuple[int, ...], int] = {}
+    parts: dict[tuple[int, ...], tuple[int, bool]] = {}  # component values shared by all states
 
     def h(cl: list[int]) -> int:
         gone_key = tuple(c for c in cl if c not in tgt)
         if gone_key in memo:  # the bound depends only on the clusters to remove
             return memo[gone_key]
-        memo[gone_key] = value = h_raw(cl)
+        moves = h_raw(cl)
+        memo[gone_key] = value = moves * _MOVE + moves - len(gone_key)
         return value
 
     def h_raw(cl: list[int]) -> int:
         have = set(cl)
         gone = [c for c in cl if c not in tgt]
         new = [c for c in tgt_list if c not in have]
-        return _order_bound(gone, new)
+        return _order_bound(gone, new, _BRANCH_BUDGET, parts)
 
-    limit = None if upper is None else (upper + 1) * _MOVE  # prune f >= limit
     counter = count()
     best_g: dict[int, int] = {start: 0}
     came: dict[int, int] = {}
     closed: set[int] = set()
     closed_g: dict[int, int] = {}
     h0 = h(unpack(start))
-    if limit is not None and h0 * _MOVE >= limit:
+    if limit is not None and h0 >= limit:
         return None
-    heap: list[tuple[int, int, int, int, int, bool]] = [
-        (h0 * _MOVE, 0, next(counter), start, 0, True)
-    ]
+    heap: list[tuple[int, int, int, int, int, bool]] = [(h0, 0, next(counter), start, 0, True)]
     push = heapq.heappush
     pop = heapq.heappop
     while heap:
         f, neg_moves, _, key, g, exact = pop(heap)
         if deadline is not None and time.monotonic() > deadline:  # a pop can cost 100 ms
-            raise _OutOfBudget(f // _MOVE)
+            raise _OutOfBudget(f)
         if g > best_g[key] or (key in closed and g == closed_g[key]):
             continue
         cl = unpack(key)
         if not exact:
-            # pathmax: the estimate est (parent's bound minus one) is admissible too
-            f2 = g + h(cl) * _MOVE
+            # pathmax: the estimate (parent's bound minus the step) is admissible too
+            f2 = g + h(cl)
             if f2 > f:
                 if limit is None or f2 < limit:
                     push(heap, (f2, neg_moves, next(counter), key, g, True))
@@ -528,13 +575,11 @@ def _astar(
                 path.append(came[path[-1]])
             return tuple(frozenset(unpack(k)) for k in reversed(path))
         if max_expansions is not None and stats.expanded >= max_expansions:
-            raise _OutOfBudget(f // _MOVE)
+            raise _OutOfBudget(f)
         closed.add(key)
         closed_g[key] = g
         stats.expanded += 1
         stats.peak_closed = len(closed)
-        # the successors' bound is at least this one minus one (consistency)
-        est = f - g - _MOVE if f - g >= _MOVE else 0
         struct = _structure(cl, n)
         for i, c in enumerate(cl):
             p, x, y = struct[c]
@@ -542,7 +587,7 @@ def _astar(
             rest = cl[:i] + cl[i + 1 :]
             for new in (x | z, y | z):
                 g2 = g + (_MOVE if new in tgt else _MOVE + 1)
-                f2 = g2 + est
+                f2 = f if f > g2 else g2  # their bound is at least this one minus the step
                 if limit is not None and f2 >= limit:
                     continue
                 j = bisect_left(rest, new)
@@ -730,7 +775,7 @@ def _shorten(trees: list[frozenset[int]], n: int, deadline: float) -> list[froze
                 if time.monotonic() > deadline:
                     return trees
                 try:
-                    sub = _astar(trees[i], trees[i + w], n, 300, None, w - 1, _Stats())
+                    sub = _astar(trees[i], trees[i + w], n, 300, None, w * _MOVE, _Stats())
                 except _OutOfBudget:
                     sub = None
                 if sub is not None:
@@ -800,6 +845,8 @@ def shortest_path(
         max_seconds = DEFAULT_MAX_SECONDS
     start = time.monotonic()
     lb = lower_bound(source, target, n)
+    # packed (moves, sums) lower bound: at least lb - a of the moves are sums (_astar)
+    lb_cost = lb * _MOVE + lb - len(source - target)
     deadline = None if max_seconds is None else start + max_seconds
     stats = _Stats()
     path: tuple[frozenset[int], ...] | None = None
@@ -813,20 +860,28 @@ def shortest_path(
             optimal, method = True, "exact"
         except _OutOfBudget as out:
             lb = max(lb, out.bound)
+            lb_cost = max(lb_cost, out.cost)
     if path is not None:
         heuristic_path = list(path)
     else:
         budget = DEFAULT_MAX_SECONDS if max_seconds is None else max_seconds
-        heuristic_path = _heuristic(source, target, n, start + 0.25 * budget)
+        # its own quarter of the budget: the quick try above may have used it all
+        h_deadline = time.monotonic() + 0.25 * budget
+        if deadline is not None:
+            h_deadline = min(h_deadline, deadline)
+        heuristic_path = _heuristic(source, target, n, h_deadline)
     ub = len(heuristic_path) - 1
-    if path is None and ub == lb == len(source - target):
-        # meets the bound with no summed label: optimal for (moves, sums)
+    ub_cost = ub * _MOVE + _sums_of(tuple(heuristic_path), target)
+    if path is None and ub_cost <= lb_cost:
+        # meets the proven bound on (moves, sums): optimal
         path, optimal, method = tuple(heuristic_path), True, "exact (heuristic meets the bound)"
     if path is None and n <= EXACT_MAX_LEAVES:
         rest = None if max_expansions is None else max(max_expansions - stats.expanded, 0)
         stats2 = _Stats()
         try:
-            path = _astar(source, target, n, rest, deadline, ub, stats2)
+            # only strictly cheaper paths are searched: none found proves the heuristic's
+            found = _astar(source, target, n, rest, deadline, ub_cost, stats2)
+            path = tuple(heuristic_path) if found is None else found
             optimal, method = True, "exact"
         except _OutOfBudget as out:
             lb = max(lb, min(out.bound, ub))
