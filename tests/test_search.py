@@ -380,8 +380,11 @@ def test_sums_tie_break() -> None:
     for s in one_tree_per_shape(n):
         for t in rng.sample(trees, 40):
             lo, _hi = _min_max_sums_over_shortest(s, t)
-            result = shortest_path(ref_clusters(s), ref_clusters(t), n)
+            source, target = ref_clusters(s), ref_clusters(t)
+            result = shortest_path(source, target, n)
             assert result.sums == lo
+            # the sums part of the search's bound (idle removals, lower_bound - a)
+            assert lo >= lower_bound(source, target, n) - len(source - target)
 
 
 # ---------------------------------------------------------------------------

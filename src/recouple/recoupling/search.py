@@ -22,7 +22,7 @@ import random
 import time
 from bisect import bisect_left
 from collections.abc import Iterable, Iterator
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from itertools import count
 
 from recouple.errors import BadValue, BudgetExceeded
@@ -77,12 +77,13 @@ class SearchResult:
     ``path`` holds the trees from source to target inclusive; ``steps`` is the number
     of moves; ``lower_bound`` the best admissible bound known for the pair; ``optimal``
     is True only when the exact search proved the path shortest (and, among shortest
-    paths, of fewest sums).  ``method`` is ``"exact"`` (A* finished),
+    paths, of fewest sums).  ``method`` is ``"exact"`` (A* finished: it found the
+    path, or proved that none is cheaper than the heuristic's),
     ``"heuristic"`` (n above :data:`EXACT_MAX_LEAVES`, or the heuristic already met
     the lower bound) or ``"heuristic (exact search out of budget)"``.  ``expanded``,
     ``peak_open`` and ``peak_closed`` describe the exact search (zero when it did not
-    run).  ``"exact (heuristic meets the bound)"`` marks a heuristic path of exactly
-    ``|C(source) - C(target)|`` moves: no path is shorter and it has no sums.
+    run).  ``"exact (heuristic meets the bound)"`` marks a heuristic path whose moves
+    and sums meet a proven lower bound on both (see :func:`_astar`).
     ``sums`` counts moves whose new cluster is not a cluster of the target: each
     introduces one summed label in the formula (CONVENTIONS 3.5).
     """
@@ -377,12 +378,17 @@ def _fewest_idle(
     still admissible, and such inexact values are never stored.
     """
     nbr = [0] * len(labels)  # per cluster: every cluster sharing an edge with it
+    degree = [0] * len(labels)
     for e in edges:
         r = e
         while r:
             b = r & -r
             r ^= b
             nbr[b.bit_length() - 1] |= e
+            degree[b.bit_length() - 1] += 1
+    # clusters in most edges first (a good incumbent early prunes more); inside a
+    # peeled component every edge through a cluster is open, so this order is fixed
+    rank = [1 << i for _, i in sorted((-d, i) for i, d in enumerate(degree))]
 
     def components(alive: int) -> list[int]:
         out = []
@@ -417,20 +423,14 @@ def _fewest_idle(
         left[0] -= 1
         if left[0] < 0:  # give up exactness here: keep the floor
             return lo_known, False
-        local = [e & comp for e in edges if e & comp]
-        # clusters in most open edges first (a good incumbent early prunes more)
-        order = []
-        r = comp
-        while r:
-            b = r & -r
-            r ^= b
-            order.append((-sum(1 for e in local if e & b), b))
-        order.sort()
+        local = tuple(e & comp for e in edges if e & comp)
         best = comp.bit_count()  # removing everything idle is always possible
         lo = best  # least lower bound over the first removals tried
-        for _, b in order:
+        for b in rank:
+            if not b & comp:
+                continue
             bound = min(best, cap)
-            rest, idle = _peel(edges, comp & ~b)
+            rest, idle = _peel(local, comp & ~b)
             subs = components(rest)
             total = 1 + idle + len(subs)  # each sub-component costs at least one
             exact = True
@@ -478,6 +478,15 @@ class _OutOfBudget(Exception):
 
 
 @dataclass(slots=True)
+class _BoundCache:
+    """Bounds towards one target: packed bound per clusters to remove (see
+    :func:`_astar`), and component values of :func:`_fewest_idle`."""
+
+    trees: dict[tuple[int, ...], int] = field(default_factory=dict)
+    parts: dict[tuple[int, ...], tuple[int, bool]] = field(default_factory=dict)
+
+
+@dataclass(slots=True)
 class _Stats:
     expanded: int = 0
     peak_open: int = 0
@@ -492,6 +501,7 @@ def _astar(
     deadline: float | None,
     limit: int | None,
     stats: _Stats,
+    cache: _BoundCache | None = None,
 ) -> tuple[frozenset[int], ...] | None:
     """A* on the lexicographic cost (moves, sums), packed as ``moves * _MOVE + sums``.
 
@@ -507,6 +517,7 @@ def _astar(
     one sum; so ``h * _MOVE + h - a`` is admissible for the packed cost.  Paths of
     packed cost ``limit`` or more are pruned; None means there is no cheaper path.
     Raises :class:`_OutOfBudget` with the smallest open f, a proven lower bound.
+    ``cache`` keeps bounds for later searches towards the same target.
     """
     m = max(n - 2, 0)
     width = n
@@ -527,8 +538,10 @@ def _astar(
     tgt = target
     tgt_list = sorted(target)
 
-    memo: dict[tuple[int, ...], int] = {}
-    parts: dict[tuple[int, ...], tuple[int, bool]] = {}  # component values shared by all states
+    if cache is None:
+        cache = _BoundCache()
+    memo = cache.trees
+    parts = cache.parts  # component values shared by all states
 
     def h(cl: list[int]) -> int:
         gone_key = tuple(c for c in cl if c not in tgt)
@@ -831,6 +844,11 @@ def shortest_path(
     and ``max_seconds`` (default :data:`DEFAULT_MAX_SECONDS` = 5 s); ``None`` lifts
     a budget.  The result is deterministic.
 
+    A short unpruned try comes first; if it does not finish, the constructive
+    heuristic (given a quarter of the time budget) gives a path, and A* then looks
+    only for strictly cheaper paths (moves, then sums): finding none proves the
+    heuristic path optimal.  Bounds cover sums as well as moves (see :func:`_astar`).
+
     >>> chain = frozenset({0b0011, 0b0111})      # (((0 1) 2) 3)
     >>> rev = frozenset({0b1100, 0b1110})        # (0 (1 (2 3)))
     >>> r = shortest_path(chain, rev, 4)
@@ -849,6 +867,7 @@ def shortest_path(
     lb_cost = lb * _MOVE + lb - len(source - target)
     deadline = None if max_seconds is None else start + max_seconds
     stats = _Stats()
+    cache = _BoundCache()  # both exact tries search towards the same target
     path: tuple[frozenset[int], ...] | None = None
     optimal = False
     method = "heuristic"
@@ -856,7 +875,7 @@ def shortest_path(
         # Most small cases finish at once; a short unbounded try avoids the heuristic.
         quick = _QUICK if max_expansions is None else min(_QUICK, max_expansions)
         try:
-            path = _astar(source, target, n, quick, deadline, None, stats)
+            path = _astar(source, target, n, quick, deadline, None, stats, cache)
             optimal, method = True, "exact"
         except _OutOfBudget as out:
             lb = max(lb, out.bound)
@@ -880,7 +899,7 @@ def shortest_path(
         stats2 = _Stats()
         try:
             # only strictly cheaper paths are searched: none found proves the heuristic's
-            found = _astar(source, target, n, rest, deadline, ub_cost, stats2)
+            found = _astar(source, target, n, rest, deadline, ub_cost, stats2, cache)
             path = tuple(heuristic_path) if found is None else found
             optimal, method = True, "exact"
         except _OutOfBudget as out:
