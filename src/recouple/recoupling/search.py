@@ -770,22 +770,26 @@ def _trees_of(source: frozenset[int], moves: list[tuple[int, int]]) -> list[froz
     return trees
 
 
-def _shorten(trees: list[frozenset[int]], n: int, deadline: float) -> list[frozenset[int]]:
+def _shorten(trees: list[frozenset[int]], n: int) -> list[frozenset[int]]:
     """Local improvement: cut cycles, then replace windows of the path by exact shortcuts.
 
     Each window ``trees[i] .. trees[i + w]`` is searched exactly for a path of at
     most ``w - 1`` moves with a small budget; a hit is spliced in and the scan
-    restarts.  Stops at ``deadline``.
+    restarts.  The work is capped by a count of window searches, not by the clock,
+    so the path does not depend on how busy the machine is (a fraction of a
+    second at 24 leaves).
     """
     trees = _cut_cycles(trees)
     widths = (3, 4, 5, 6, 7, 8)
+    searches = 0
     improved = True
-    while improved and time.monotonic() < deadline:
+    while improved:
         improved = False
         for w in widths:
             i = 0
             while i + w < len(trees):
-                if time.monotonic() > deadline:
+                searches += 1
+                if searches > _SHORTEN_SEARCHES:
                     return trees
                 try:
                     sub = _astar(trees[i], trees[i + w], n, 300, None, w * _MOVE, _Stats())
@@ -796,6 +800,10 @@ def _shorten(trees: list[frozenset[int]], n: int, deadline: float) -> list[froze
                     improved = True
                 i += 1
     return trees
+
+
+# Window searches of _shorten at most (a few thousand suffice at 24 leaves).
+_SHORTEN_SEARCHES = 5000
 
 
 def _cut_cycles(trees: list[frozenset[int]]) -> list[frozenset[int]]:
@@ -809,22 +817,22 @@ def _cut_cycles(trees: list[frozenset[int]]) -> list[frozenset[int]]:
     return out
 
 
-def _heuristic(
-    source: frozenset[int], target: frozenset[int], n: int, deadline: float
-) -> list[frozenset[int]]:
-    """Best of a few greedy constructions, then local improvement (small n only)."""
+def _heuristic(source: frozenset[int], target: frozenset[int], n: int) -> list[frozenset[int]]:
+    """Best of a few greedy constructions, then local improvement (small n only).
+
+    A fixed amount of work, not a time budget: the same pair always gets the
+    same path.
+    """
     runs = 8 if n <= 24 else 4 if n <= 40 else 1
     best: list[tuple[int, int]] | None = None
     for seed in range(runs):
         moves = _heuristic_run(source, target, n, seed)
         if best is None or len(moves) < len(best):
             best = moves
-        if seed and time.monotonic() > deadline:
-            break
     assert best is not None
     trees = _trees_of(source, best)
     if n <= EXACT_MAX_LEAVES:
-        trees = _shorten(trees, n, deadline)
+        trees = _shorten(trees, n)
     return trees
 
 
@@ -845,9 +853,10 @@ def shortest_path(
     a budget.  The result is deterministic.
 
     A short unpruned try comes first; if it does not finish, the constructive
-    heuristic (given a quarter of the time budget) gives a path, and A* then looks
-    only for strictly cheaper paths (moves, then sums): finding none proves the
-    heuristic path optimal.  Bounds cover sums as well as moves (see :func:`_astar`).
+    heuristic (a fixed amount of work, so its path never depends on the clock)
+    gives a path, and A* then looks only for strictly cheaper paths (moves, then
+    sums): finding none proves the heuristic path optimal.  Bounds cover sums as
+    well as moves (see :func:`_astar`).
 
     >>> chain = frozenset({0b0011, 0b0111})      # (((0 1) 2) 3)
     >>> rev = frozenset({0b1100, 0b1110})        # (0 (1 (2 3)))
@@ -880,15 +889,7 @@ def shortest_path(
         except _OutOfBudget as out:
             lb = max(lb, out.bound)
             lb_cost = max(lb_cost, out.cost)
-    if path is not None:
-        heuristic_path = list(path)
-    else:
-        budget = DEFAULT_MAX_SECONDS if max_seconds is None else max_seconds
-        # its own quarter of the budget: the quick try above may have used it all
-        h_deadline = time.monotonic() + 0.25 * budget
-        if deadline is not None:
-            h_deadline = min(h_deadline, deadline)
-        heuristic_path = _heuristic(source, target, n, h_deadline)
+    heuristic_path = list(path) if path is not None else _heuristic(source, target, n)
     ub = len(heuristic_path) - 1
     ub_cost = ub * _MOVE + _sums_of(tuple(heuristic_path), target)
     if path is None and ub_cost <= lb_cost:
