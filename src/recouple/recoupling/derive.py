@@ -232,9 +232,13 @@ def _node_masks(tree: Coupling, bit: dict[str, int]) -> dict[int, Node]:
 
 
 def _parent_of(tree: Coupling, label: str) -> Coupling:
-    for node in tree.couplings():
-        if label in (node.left.label, node.right.label):
-            return node
+    stack: list[Node] = [tree]
+    while stack:
+        node = stack.pop()
+        if isinstance(node, Coupling):
+            if label in (node.left.label, node.right.label):
+                return node
+            stack += (node.left, node.right)
     raise AssertionError(f"{label!r} has no parent")  # the search only moves non-root clusters
 
 

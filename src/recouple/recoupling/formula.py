@@ -186,15 +186,39 @@ def simplify(formula: Formula) -> Formula:
     changed = True
     while changed:  # one fold can enable another; folding keeps the phase normal
         changed = False
+        summands = _summands(formula)
         for x in formula.sums:
-            folded = _fold_ninej(formula, x)
+            with_x = summands.get(x)
+            if with_x is None:
+                continue
+            folded = _fold_ninej(formula, x, with_x)
             for identity in _IDENTITIES:
                 if folded is None:
-                    folded = _fold_identity(formula, x, identity)
+                    folded = _fold_identity(formula, x, identity, with_x)
             if folded is not None:
                 formula = folded
                 changed = True
+                summands = _summands(formula)
     return _rename_sums(_standardise(formula))
+
+
+def _summands(f: Formula) -> dict[str, list[SixJEntries]]:
+    """For each summation variable that a fold could remove, the 6j holding it.
+
+    A fold needs ``(2x+1)`` to the first power, x in 6j symbols only (each once),
+    and in no delta or 9j; variables failing that are left out.
+    """
+    hats = dict(f.hats)
+    blocked = {label for pair in f.deltas for label in pair}
+    blocked |= {label for n in f.ninejs for label in n}
+    out: dict[str, list[SixJEntries]] = {
+        x: [] for x in f.sums if hats.get(x) == 2 and x not in blocked
+    }
+    for s in f.sixjs:
+        for label in set(s):
+            if label in out:
+                out[label].append(s)
+    return {x: w for x, w in out.items() if w and all(s.count(x) == 1 for s in w)}
 
 
 @dataclass(frozen=True, slots=True)
@@ -264,18 +288,17 @@ def _unify(
     return out
 
 
-def _fold_identity(f: Formula, x: str, identity: _Identity) -> Formula | None:
+def _fold_identity(
+    f: Formula, x: str, identity: _Identity, with_x: list[SixJEntries]
+) -> Formula | None:
     """Replace the sum over ``x`` by the identity's closed form where the pattern fits.
 
     Every arrangement of every 6j holding x is tried against the identity's
     left-hand side (the 24 symmetries of the 6j carry no phase, DLMF 34.5.8);
-    the phase left over must not depend on x.
+    the phase left over must not depend on x.  ``with_x`` are the 6j holding x
+    (see :func:`_summands`).
     """
-    hats = dict(f.hats)
-    if hats.get(x) != 2 or any(x in d for d in f.deltas) or any(x in n for n in f.ninejs):
-        return None
-    with_x = [s for s in f.sixjs if x in s]
-    if len(with_x) != len(identity.lhs) or any(s.count(x) != 1 for s in with_x):
+    if len(with_x) != len(identity.lhs):
         return None
     for order in itertools.permutations(with_x):
         for mapping in _match(identity.lhs, order, x, {}):
@@ -391,20 +414,16 @@ def _sixj_signature(s: tuple[str, ...]) -> frozenset[frozenset[str]]:
     return frozenset(frozenset(t) for t in ((j1, j2, j3), (j1, l2, l3), (l1, j2, l3), (l1, l2, j3)))
 
 
-def _fold_ninej(f: Formula, x: str) -> Formula | None:
+def _fold_ninej(f: Formula, x: str, with_x: list[SixJEntries]) -> Formula | None:
     """Replace ``sum_x (-1)^(2x) (2x+1) 6j 6j 6j`` by one 9j where the pattern fits.
 
     The pattern is DLMF 34.6.2:
     ``{a b c; d e f; g h i} = sum_x (-1)^(2x) (2x+1) {a d g; h i x}{b e h; d x f}{c f i; x a b}``.
     The six triads of the three 6j that do not hold x are the rows and columns
     of the 9j; every one of its 72 arrangements is tried so that any symmetric
-    form of the three 6j is recognised.
+    form of the three 6j is recognised.  ``with_x`` are the 6j holding x.
     """
-    hats = dict(f.hats)
-    if hats.get(x) != 2 or any(x in d for d in f.deltas) or any(x in n for n in f.ninejs):
-        return None
-    with_x = [s for s in f.sixjs if x in s]
-    if len(with_x) != 3 or any(s.count(x) != 1 for s in with_x):
+    if len(with_x) != 3:
         return None
     phase = dict(f.phase)
     if phase.get(x, 0) != 0:  # after normal_phase, (-1)^(2x) leaves no x in the form

@@ -106,11 +106,11 @@ class Coupling:
 
     def leaves(self) -> tuple[str, ...]:
         """The leaf names in left-to-right order."""
-        return self.left.leaves() + self.right.leaves()
+        return tuple(node.name for node in self.nodes() if isinstance(node, Leaf))
 
     def internal_labels(self) -> tuple[str, ...]:
         """Labels of the couplings, children before parents; the total comes last."""
-        return self.left.internal_labels() + self.right.internal_labels() + (self.label,)
+        return tuple(node.label for node in self.nodes() if isinstance(node, Coupling))
 
     def labels(self) -> tuple[str, ...]:
         """All labels: the leaves in order, then the couplings bottom-up."""
@@ -122,10 +122,20 @@ class Coupling:
         return self.label
 
     def nodes(self) -> Iterator[Node]:
-        """Every node, children before parents (post-order)."""
-        yield from self.left.nodes()
-        yield from self.right.nodes()
-        yield self
+        """Every node, children before parents (post-order), left part first."""
+        # An explicit stack: nested generators would cost O(depth) per node, and the
+        # engine walks trees of a hundred leaves thousands of times.
+        out: list[Node] = []
+        stack: list[tuple[Node, bool]] = [(self, False)]
+        while stack:
+            node, expanded = stack.pop()
+            if isinstance(node, Leaf) or expanded:
+                out.append(node)
+            else:
+                stack.append((node, True))
+                stack.append((node.right, False))
+                stack.append((node.left, False))
+        return iter(out)
 
     def couplings(self) -> Iterator[Coupling]:
         """Every coupling node, children before parents."""
