@@ -39,6 +39,7 @@ from typing import TYPE_CHECKING
 
 from recouple.errors import BadValue
 from recouple.outputs.text import exponent_text
+from recouple.recoupling.formula import summation_order
 
 if TYPE_CHECKING:
     from recouple.recoupling.formula import Formula
@@ -156,42 +157,12 @@ def python_names(formula: Formula) -> dict[str, str]:
 
 
 def sum_order(formula: Formula) -> list[tuple[str, list[tuple[str, str]]]]:
-    """Summation variables, outermost first, each with the triads bounding its range.
+    """The loop order of the summation variables and their bounding triads.
 
-    A pair ``(p, q)`` listed for ``x`` means the triad ``(x, p, q)`` of some
-    symbol must satisfy the triangle condition; ``p`` and ``q`` are free labels
-    or outer variables.  The order is the one :mod:`recouple.recoupling.evaluate`
-    loops in: at each level, the first remaining variable some triad pins down.
-
-    >>> from recouple.recoupling.derive import derive
-    >>> f = derive("((((a,b)e,c)f,d)g,k)J", "(((a,d)p,(b,k)q)r,c)J").formula
-    >>> f.sums, sum_order(f)
-    (('x1',), [('x1', [('b', 'p'), ('d', 'e'), ('r', 'k'), ('c', 'g')])])
+    The same order :mod:`recouple.recoupling.evaluate` loops in; see
+    :func:`recouple.recoupling.formula.summation_order`.
     """
-    triads: list[tuple[str, str, str]] = []
-    for j1, j2, j3, l1, l2, l3 in formula.sixjs:  # the four triads of a 6j (DLMF §34.4)
-        triads += [(j1, j2, j3), (j1, l2, l3), (l1, j2, l3), (l1, l2, j3)]
-    for a, b, c, d, e, f, g, h, i in formula.ninejs:  # rows and columns of a 9j (DLMF §34.6)
-        triads += [(a, b, c), (d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)]
-    known = set(formula.free_labels)
-    todo = list(formula.sums)
-    out: list[tuple[str, list[tuple[str, str]]]] = []
-    while todo:
-        for x in todo:
-            bounds: list[tuple[str, str]] = []
-            for t in triads:
-                if t.count(x) == 1:
-                    p, q = (o for o in t if o != x)
-                    if p in known and q in known and {p, q} not in map(set, bounds):
-                        bounds.append((p, q))
-            if bounds:
-                break
-        else:
-            raise ValueError(f"summation variables {todo!r} are bounded by no triangle")
-        out.append((x, bounds))
-        todo.remove(x)
-        known.add(x)
-    return out
+    return summation_order(formula)
 
 
 # ---------------------------------------------------------------------------

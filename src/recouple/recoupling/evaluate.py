@@ -40,7 +40,7 @@ from recouple.errors import BadValue
 from recouple.numbers._integers import squarefree_split
 from recouple.numbers.radicals import Radical, radical_from_parts
 from recouple.numbers.spins import MAX_SPIN, spin_text, to_doubled
-from recouple.recoupling.formula import Formula
+from recouple.recoupling.formula import Formula, summation_order
 from recouple.symbols.floats import ninej_float_doubled, sixj_float_doubled
 from recouple.symbols.values import ninej_doubled, sixj_doubled
 
@@ -299,44 +299,19 @@ class _Plan:
         return outer * math.fsum(parts)
 
 
-def _symbol_triads(formula: Formula) -> list[tuple[str, str, str]]:
-    """Every triad of every symbol: the 6j's four (DLMF §34.4), the 9j's rows and columns."""
-    triads: list[tuple[str, str, str]] = []
-    for j1, j2, j3, l1, l2, l3 in formula.sixjs:
-        triads += [(j1, j2, j3), (j1, l2, l3), (l1, j2, l3), (l1, l2, j3)]
-    for a, b, c, d, e, f, g, h, i in formula.ninejs:
-        triads += [(a, b, c), (d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)]
-    return triads
-
-
 @lru_cache(maxsize=256)
 def _plan(formula: Formula) -> _Plan:
     """Compile ``formula`` (cached: a matrix or a table reuses one plan)."""
     free = formula.free_labels
     slot = {label: k for k, label in enumerate(free)}
-    triads = _symbol_triads(formula)
-    # Summation order: repeatedly the first variable that some triad pins down through
-    # two labels already known (the order does not change the value, only the work).
-    known = set(free)
-    todo = list(formula.sums)
+    # Summation order and bounds are shared with the code writers
+    # (formula.summation_order); here they become slots.
     loops: list[tuple[int, tuple[tuple[int, int], ...]]] = []
-    while todo:
-        for x in todo:
-            found: list[tuple[int, int]] = []
-            for t in triads:
-                others = [o for o in t if o != x]
-                if len(others) == 2 and all(o in known for o in others):
-                    k1, k2 = sorted(slot[o] for o in others)
-                    found.append((k1, k2))
-            bounds = tuple(dict.fromkeys(found))
-            if bounds:
-                break
-        else:
-            raise AssertionError("a summation variable is bounded by no triangle: a formula bug")
+    for x, pairs in summation_order(formula):
         slot[x] = len(slot)
+        ends = [(slot[p], slot[q]) for p, q in pairs]
+        bounds = tuple(dict.fromkeys((min(e), max(e)) for e in ends))
         loops.append((slot[x], bounds))
-        known.add(x)
-        todo.remove(x)
     sums = set(formula.sums)
 
     def part(inner: bool) -> _Part:

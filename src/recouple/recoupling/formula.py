@@ -42,7 +42,15 @@ from recouple.symbols.canonical import (
 if TYPE_CHECKING:
     from recouple.numbers.radicals import Radical
 
-__all__ = ["Formula", "SixJEntries", "NineJEntries", "normal_phase", "simplify"]
+__all__ = [
+    "Formula",
+    "NineJEntries",
+    "SixJEntries",
+    "normal_phase",
+    "simplify",
+    "summation_order",
+    "symbol_triads",
+]
 
 SixJEntries = tuple[str, str, str, str, str, str]
 NineJEntries = tuple[str, str, str, str, str, str, str, str, str]
@@ -130,6 +138,56 @@ class Formula:
         from recouple.outputs.sympy_export import formula_to_sympy
 
         return formula_to_sympy(self)
+
+
+# ---------------------------------------------------------------------------
+# Summation ranges (shared by the evaluator and the code writers)
+# ---------------------------------------------------------------------------
+
+
+def symbol_triads(formula: Formula) -> list[tuple[str, str, str]]:
+    """Every triad of every symbol: the 6j's four (DLMF §34.4), the 9j's rows and columns."""
+    triads: list[tuple[str, str, str]] = []
+    for j1, j2, j3, l1, l2, l3 in formula.sixjs:
+        triads += [(j1, j2, j3), (j1, l2, l3), (l1, j2, l3), (l1, l2, j3)]
+    for a, b, c, d, e, f, g, h, i in formula.ninejs:
+        triads += [(a, b, c), (d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)]
+    return triads
+
+
+def summation_order(formula: Formula) -> list[tuple[str, list[tuple[str, str]]]]:
+    """Summation variables, outermost first, each with the triads bounding its range.
+
+    A pair ``(p, q)`` listed for ``x`` means the triad ``(x, p, q)`` of some symbol
+    must satisfy the triangle condition; ``p`` and ``q`` are free labels or outer
+    variables.  At each level the first remaining variable that some triad pins
+    down comes next (the order changes the work, never the value).
+
+    >>> from recouple.recoupling.derive import derive
+    >>> f = derive("((((a,b)e,c)f,d)g,k)J", "(((a,d)p,(b,k)q)r,c)J").formula
+    >>> f.sums, summation_order(f)
+    (('x1',), [('x1', [('b', 'p'), ('d', 'e'), ('r', 'k'), ('c', 'g')])])
+    """
+    triads = symbol_triads(formula)
+    known = set(formula.free_labels)
+    todo = list(formula.sums)
+    out: list[tuple[str, list[tuple[str, str]]]] = []
+    while todo:
+        for x in todo:
+            bounds: list[tuple[str, str]] = []
+            for t in triads:
+                if t.count(x) == 1:
+                    p, q = (o for o in t if o != x)
+                    if p in known and q in known and {p, q} not in map(set, bounds):
+                        bounds.append((p, q))
+            if bounds:
+                break
+        else:
+            raise AssertionError(f"summation variables {todo!r} are bounded by no triangle")
+        out.append((x, bounds))
+        todo.remove(x)
+        known.add(x)
+    return out
 
 
 # ---------------------------------------------------------------------------
