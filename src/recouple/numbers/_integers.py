@@ -155,14 +155,20 @@ def _squarefree_small(n: int) -> tuple[int, int]:
     m = n
     while m > 1:
         p = _SPF[m]
-        e = 0
-        while m % p == 0:
-            m //= p
-            e += 1
+        m, e = _strip(m, p)
         root *= p ** (e // 2)
         if e % 2:
             free *= p
     return root, free
+
+
+def _strip(m: int, p: int) -> tuple[int, int]:
+    """``m`` with every factor ``p`` divided out, and how many there were."""
+    e = 0
+    while m % p == 0:
+        m //= p
+        e += 1
+    return m, e
 
 
 def squarefree_split(n: int) -> tuple[int, int]:
@@ -192,10 +198,7 @@ def squarefree_split(n: int) -> tuple[int, int]:
             certified = True
             break
         if m % p == 0:
-            e = 0
-            while m % p == 0:
-                m //= p
-                e += 1
+            m, e = _strip(m, p)
             root *= p ** (e // 2)
             if e % 2:
                 free *= p
