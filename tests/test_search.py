@@ -330,6 +330,73 @@ def test_lower_bound_beats_matching_and_fallback_admissible(
     assert stronger > 0  # the order bound does add something
 
 
+def _needs_reference(source: frozenset[int], target: frozenset[int], n: int) -> int:
+    """Least max(a - |M|, |N(M)|) over every matching M of crossing pairs, by brute
+    force: the needs argument of recouple.recoupling.search._needs_floor, written
+    from its statement (a pair (s, t) needs s & t, s - t, t - s and s | t present;
+    those outside both trees, not leaves and not the root, must be created)."""
+    gone = sorted(source - target)
+    new = sorted(target - source)
+    root = (1 << n) - 1
+
+    def needed(s: int, t: int) -> frozenset[int]:
+        parts = (s & t, s & ~t, t & ~s, s | t)
+        return frozenset(
+            w
+            for w in parts
+            if bin(w).count("1") > 1 and w != root and w not in source and w not in target
+        )
+
+    def best(i: int, used: frozenset[int], matched: int, need: frozenset[int]) -> int:
+        if i == len(new):
+            return max(len(gone) - matched, len(need))
+        t = new[i]
+        out = best(i + 1, used, matched, need)
+        for s in gone:
+            if s not in used and s & t and s & ~t and t & ~s:
+                out = min(out, best(i + 1, used | {s}, matched + 1, need | needed(s, t)))
+        return out
+
+    return best(0, frozenset(), 0, frozenset())
+
+
+@pytest.mark.parametrize("n", [5, 6, 7])
+def test_needs_floor_matches_brute_force(n: int) -> None:
+    # The branch and bound of _needs_floor returns exactly max(floor, reference).
+    from recouple.recoupling.search import _needs_floor, _order_bound
+
+    rng = random.Random(2026 + n)
+    for _ in range(120):
+        source, target = random_clusters(n, rng), random_clusters(n, rng)
+        gone, new = sorted(source - target), sorted(target - source)
+        floor = _order_bound(gone, new) - len(gone)
+        got = _needs_floor(gone, new, source | target, n, floor)
+        assert got == max(floor, _needs_reference(source, target, n))
+
+
+def test_needs_floor_tightens_and_its_budget_is_safe(monkeypatch: pytest.MonkeyPatch) -> None:
+    # The needs floor raises the order bound 2a - P on many pairs (all still within
+    # the BFS distance), and with no branching budget it falls back to 2a - P.
+    from recouple.recoupling import search
+
+    n = 6
+    raised = 0
+    for s in one_tree_per_shape(n):
+        dist = bfs(s)
+        source = ref_clusters(s)
+        for t, d in dist.items():
+            target = ref_clusters(t)
+            gone, new = sorted(source - target), sorted(target - source)
+            order = search._order_bound(gone, new)
+            full = lower_bound(source, target, n)
+            assert order <= full <= d
+            raised += full > order
+            with monkeypatch.context() as m:
+                m.setattr(search, "_NEEDS_BUDGET", 0)
+                assert lower_bound(source, target, n) == order
+    assert raised > 100
+
+
 @pytest.mark.parametrize("n", [8, 9])
 def test_lower_bound_admissible_random(n: int) -> None:
     # Beyond exhaustive sizes: the bound never exceeds the proven optimum.

@@ -291,13 +291,22 @@ def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     nodes a stuck group is charged one idle removal only, still
     admissible).
 
+    Up to :data:`EXACT_MAX_LEAVES` the bound is tightened by what the moves
+    creating target clusters need present (:func:`_needs_floor`): the bound is
+    ``a + k`` with ``k`` the fewest moves creating non-target clusters, at least
+    ``a - P`` and at least the clusters outside both trees that some such move needs.
+
     >>> lower_bound(frozenset({0b0011, 0b0111}), frozenset({0b1100, 0b1110}), 4)
     2
     """
     # Beyond the exact search's reach the bound is only reported, so it gets a small
     # branching budget: still admissible, and cheap at 100 leaves.
     budget = _BRANCH_BUDGET if n <= EXACT_MAX_LEAVES else _LARGE_BRANCH_BUDGET
-    return _order_bound(sorted(source - target), sorted(target - source), budget)
+    gone, new = sorted(source - target), sorted(target - source)
+    moves = _order_bound(gone, new, budget)
+    if n > EXACT_MAX_LEAVES:
+        return moves
+    return len(gone) + _needs_floor(gone, new, source | target, n, moves - len(gone))
 
 
 # Sub-problems solved per stuck component before the bound settles for a floor there.
@@ -459,6 +468,141 @@ def _fewest_idle(
     return total
 
 
+def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int, floor: int) -> int:
+    """Fewest moves creating non-target clusters, at least ``floor``: ``k`` of the proof.
+
+    ``known`` holds the clusters of the current tree and of the target.  A move that
+    removes ``s = X | Y`` (sibling ``Z``, parent ``P``) and creates ``t = X | Z`` needs
+    ``X = s & t``, ``Y = s - t``, ``Z = t - s`` and ``P = s | t`` present at that
+    moment (CONVENTIONS 5.2).  Those that are neither leaves, the root, nor in
+    ``known`` exist only if some earlier move created them, and that move creates a
+    non-target cluster.  With the pairs ``M`` of the proof of :func:`lower_bound`
+    (first removal of ``s`` creating ``t``: a matching of crossing pairs), every path
+    has ``k >= a - |M|`` (the other first removals each create a non-target cluster)
+    and ``k >= |N(M)|``, the distinct clusters needed by the pairs of ``M`` (each is
+    created at least once, by a move creating a non-target cluster).  So ``k`` is at
+    least the least ``max(a - |M|, |N(M)|)`` over all matchings ``M``, found here by
+    branch and bound (own argument; checked against brute force in
+    tests/test_search.py).  Past ``_NEEDS_BUDGET`` branches it returns ``floor``,
+    the order bound's ``a - P``, which is admissible on its own.
+    """
+    a = len(gone)
+    if a == 0:
+        return 0
+    options = _needs_options(gone, new, known, n)
+    # k <= v iff some matching leaves at most v of the a target clusters unmatched
+    # (a - |M| <= v) and needs at most v clusters; try v upwards from the floor.
+    for v in range(max(floor, 0), a):
+        found = _needs_fit(options, v)
+        if found is None:
+            return max(floor, v)  # every smaller v was refuted: still a bound
+        if found:
+            return v
+    return a
+
+
+def _needs_options(
+    gone: list[int], new: list[int], known: frozenset[int], n: int
+) -> list[list[tuple[int, int]]]:
+    """Per target cluster to create, its crossing clusters to remove (as bits of
+    ``gone``) with the bitmask of the clusters that pair needs (see :func:`_needs_floor`)."""
+    root = (1 << n) - 1
+    ids: dict[int, int] = {}
+    options: list[list[tuple[int, int]]] = []
+    for t in new:
+        opts = []
+        for i, s in enumerate(gone):
+            if s & t and s & ~t and t & ~s:
+                need = 0
+                for w in (s & t, s & ~t, t & ~s, s | t):
+                    if w & (w - 1) and w != root and w not in known:
+                        need |= 1 << ids.setdefault(w, len(ids))
+                opts.append((1 << i, need))
+        opts.sort(key=lambda o: o[1].bit_count())
+        options.append(opts)
+    return options
+
+
+def _needs_fit(options: list[list[tuple[int, int]]], v: int) -> bool | None:
+    """Whether some matching leaves at most ``v`` target clusters unmatched and
+    needs at most ``v`` clusters (``k <= v`` is possible); None when out of budget."""
+    left = [_NEEDS_BUDGET]
+    failed: set[tuple[int, int, int]] = set()
+
+    def fits(rest: int, used: int, skips: int, need: int) -> bool | None:
+        """Whether the target clusters in ``rest`` can be matched with at most
+        ``v - skips`` more skipped; branches on the one with the fewest options that fit."""
+        if not rest:
+            return True
+        key = (rest, used, need)
+        if key in failed:
+            return False
+        left[0] -= 1
+        if left[0] < 0:
+            return None
+        best_fit: list[tuple[int, int]] | None = None
+        best_t = 0
+        dead = skips  # clusters with no option that fits must be skipped
+        costly: list[int] = []  # per cluster with no free option: clusters it could add
+        r = rest
+        while r:
+            b = r & -r
+            r ^= b
+            fit = [
+                (bit, more | need)
+                for bit, more in options[b.bit_length() - 1]
+                if not used & bit and (more | need).bit_count() <= v
+            ]
+            if not fit:
+                dead += 1
+                if dead > v:
+                    failed.add(key)
+                    return False
+                rest ^= b
+                continue
+            if best_fit is None or len(fit) < len(best_fit):
+                best_fit, best_t = fit, b
+            adds = 0
+            for _, more in fit:
+                if more == need:
+                    break
+                adds |= more & ~need
+            else:
+                costly.append(adds)
+        if best_fit is None:
+            return True  # every remaining cluster skipped, within the allowance
+        if len(costly) > v - dead:
+            # each costly cluster is skipped or matched through a new needed cluster;
+            # room for v - |need| more, each serving at most the clusters it appears in
+            counts: dict[int, int] = {}
+            for adds in costly:
+                while adds:
+                    w = adds & -adds
+                    adds ^= w
+                    counts[w] = counts.get(w, 0) + 1
+            room = v - need.bit_count()
+            served = sum(sorted(counts.values(), reverse=True)[:room])
+            if len(costly) - served > v - dead:
+                failed.add(key)
+                return False
+        for bit, more in best_fit:
+            found = fits(rest ^ best_t, used | bit, dead, more)
+            if found is not False:
+                return found
+        if dead < v:
+            found = fits(rest ^ best_t, used, dead + 1, need)
+            if found is not False:
+                return found
+        failed.add(key)
+        return False
+
+    return fits((1 << len(options)) - 1, 0, 0, 0)
+
+
+# Branches of _needs_floor per bound before it settles for the order bound's floor.
+_NEEDS_BUDGET = 20_000
+
+
 # ---------------------------------------------------------------------------
 # Exact search (A*)
 
@@ -479,10 +623,12 @@ class _OutOfBudget(Exception):
 
 @dataclass(slots=True)
 class _BoundCache:
-    """Bounds towards one target: packed bound per clusters to remove (see
-    :func:`_astar`), and component values of :func:`_fewest_idle`."""
+    """Bounds towards one target, keyed by the clusters still to remove: the best
+    proven bound on the moves (raised lazily by :func:`_astar`), the order bound, and
+    component values of :func:`_fewest_idle`."""
 
     trees: dict[tuple[int, ...], int] = field(default_factory=dict)
+    orders: dict[tuple[int, ...], int] = field(default_factory=dict)
     parts: dict[tuple[int, ...], tuple[int, bool]] = field(default_factory=dict)
 
 
@@ -537,50 +683,80 @@ def _astar(
     goal = pack(sorted(target))
     tgt = target
     tgt_list = sorted(target)
+    known = frozenset(target)
 
     if cache is None:
         cache = _BoundCache()
-    memo = cache.trees
     parts = cache.parts  # component values shared by all states
+    bounds = cache.trees  # clusters to remove -> proven bound on the moves
+    orders = cache.orders  # clusters to remove -> the order bound (moves)
 
-    def h(cl: list[int]) -> int:
+    def raise_bound(cl: list[int], need: int) -> int:
+        """A proven bound on the moves from ``cl``, above ``need`` when the order or
+        needs bound shows it (else the state may be expanded at this f).
+
+        Bounds are raised lazily: A* only asks whether a state's bound exceeds the
+        value that would let it be expanded now, and each question is one test of
+        :func:`_needs_fit` (the costly part) rather than the whole bound.
+        """
         gone_key = tuple(c for c in cl if c not in tgt)
-        if gone_key in memo:  # the bound depends only on the clusters to remove
-            return memo[gone_key]
-        moves = h_raw(cl)
-        memo[gone_key] = value = moves * _MOVE + moves - len(gone_key)
-        return value
-
-    def h_raw(cl: list[int]) -> int:
+        lo = bounds.get(gone_key, 0)
+        if lo > need:
+            return lo
+        a = len(gone_key)
         have = set(cl)
-        gone = [c for c in cl if c not in tgt]
         new = [c for c in tgt_list if c not in have]
-        return _order_bound(gone, new, _BRANCH_BUDGET, parts)
+        gone = list(gone_key)
+        # cheapest first: the order bound with one idle removal per stuck group, then
+        # one test of the needs bound, then the full order bound
+        lo = max(lo, _order_bound(gone, new, 0, parts))
+        # is k <= need - a possible?  If not, the bound exceeds need.
+        if (
+            lo <= need
+            and need - a < a
+            and _needs_fit(_needs_options(gone, new, known | have, n), need - a) is False
+        ):
+            lo = need + 1
+        if lo <= need:
+            order = orders.get(gone_key)
+            if order is None:
+                order = orders[gone_key] = _order_bound(gone, new, _BRANCH_BUDGET, parts)
+            lo = max(lo, order)
+        bounds[gone_key] = lo
+        return lo
+
+    def packed(moves: int, a: int) -> int:
+        return moves * _MOVE + moves - a
 
     counter = count()
     best_g: dict[int, int] = {start: 0}
     came: dict[int, int] = {}
     closed: set[int] = set()
     closed_g: dict[int, int] = {}
-    h0 = h(unpack(start))
+    a0 = len(source - target)
+    h0 = packed(lower_bound(source, target, n), a0)
     if limit is not None and h0 >= limit:
         return None
+    # entries: f, -moves, tie, state, g, checked (the bound was tested at this f)
     heap: list[tuple[int, int, int, int, int, bool]] = [(h0, 0, next(counter), start, 0, True)]
     push = heapq.heappush
     pop = heapq.heappop
     while heap:
-        f, neg_moves, _, key, g, exact = pop(heap)
+        f, neg_moves, _, key, g, checked = pop(heap)
         if deadline is not None and time.monotonic() > deadline:  # a pop can cost 100 ms
             raise _OutOfBudget(f)
         if g > best_g[key] or (key in closed and g == closed_g[key]):
             continue
         cl = unpack(key)
-        if not exact:
-            # pathmax: the estimate (parent's bound minus the step) is admissible too
-            f2 = g + h(cl)
+        if not checked:
+            # pathmax: the estimate (parent's bound minus the step) is admissible too;
+            # need: the most moves a bound may show with g + bound still <= f
+            a = sum(1 for c in cl if c not in tgt)
+            moves = raise_bound(cl, (f - g + a) // (_MOVE + 1))
+            f2 = g + packed(moves, a)
             if f2 > f:
                 if limit is None or f2 < limit:
-                    push(heap, (f2, neg_moves, next(counter), key, g, True))
+                    push(heap, (f2, neg_moves, next(counter), key, g, False))
                 continue
         if key == goal:
             path = [key]
