@@ -520,19 +520,19 @@ def test_heuristic_large(n: int) -> None:
 
 
 def test_budget_fallback() -> None:
-    # With 5 expansions some pairs stay unproven (others are proven when the heuristic
+    # With one expansion some pairs stay unproven (others are proven when the heuristic
     # path meets the bound on moves and sums): check both kinds against the optimum.
     n = 9
     rng = random.Random(11)
     fallbacks = 0
-    for _ in range(6):
+    for _ in range(8):
         source, target = random_clusters(n, rng), random_clusters(n, rng)
         exact = shortest_path(source, target, n, max_expansions=None, max_seconds=None)
         assert exact.optimal
-        cheap = shortest_path(source, target, n, max_expansions=5)
+        cheap = shortest_path(source, target, n, max_expansions=1)
         check_path(cheap, source, target, n)
         check_moves_legal(cheap.path, n)
-        assert cheap.expanded <= 5
+        assert cheap.expanded <= 1
         assert cheap.lower_bound <= exact.steps <= cheap.steps
         if cheap.optimal:
             assert (cheap.steps, cheap.sums) == (exact.steps, exact.sums)

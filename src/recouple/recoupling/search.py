@@ -483,7 +483,7 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
     created at least once, by a move creating a non-target cluster).  So ``k`` is at
     least the least ``max(a - |M|, |N(M)|)`` over all matchings ``M``, found here by
     branch and bound (own argument; checked against brute force in
-    tests/test_search.py).  Past ``_NEEDS_BUDGET`` branches it returns ``floor``,
+    tests/test_search.py).  Past ``_NEEDS_BUDGET`` units of work it returns ``floor``,
     the order bound's ``a - P``, which is admissible on its own.
     """
     a = len(gone)
@@ -492,8 +492,9 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
     options = _needs_options(gone, new, known, n)
     # k <= v iff some matching leaves at most v of the a target clusters unmatched
     # (a - |M| <= v) and needs at most v clusters; try v upwards from the floor.
+    left = [_NEEDS_BUDGET]  # shared by the tests: one budget per bound
     for v in range(max(floor, 0), a):
-        found = _needs_fit(options, v)
+        found = _needs_fit(options, v, left)
         if found is None:
             return max(floor, v)  # every smaller v was refuted: still a bound
         if found:
@@ -523,10 +524,14 @@ def _needs_options(
     return options
 
 
-def _needs_fit(options: list[list[tuple[int, int]]], v: int) -> bool | None:
+def _needs_fit(
+    options: list[list[tuple[int, int]]], v: int, left: list[int] | None = None
+) -> bool | None:
     """Whether some matching leaves at most ``v`` target clusters unmatched and
-    needs at most ``v`` clusters (``k <= v`` is possible); None when out of budget."""
-    left = [_NEEDS_BUDGET]
+    needs at most ``v`` clusters (``k <= v`` is possible); None when out of budget
+    (``left[0]`` units of work, :data:`_NEEDS_BUDGET` if not given)."""
+    if left is None:
+        left = [_NEEDS_BUDGET]
     failed: set[tuple[int, int, int]] = set()
 
     def fits(rest: int, used: int, skips: int, need: int) -> bool | None:
@@ -537,7 +542,7 @@ def _needs_fit(options: list[list[tuple[int, int]]], v: int) -> bool | None:
         key = (rest, used, need)
         if key in failed:
             return False
-        left[0] -= 1
+        left[0] -= rest.bit_count()  # the work of one branch grows with what is left
         if left[0] < 0:
             return None
         best_fit: list[tuple[int, int]] | None = None
@@ -599,8 +604,9 @@ def _needs_fit(options: list[list[tuple[int, int]]], v: int) -> bool | None:
     return fits((1 << len(options)) - 1, 0, 0, 0)
 
 
-# Branches of _needs_floor per bound before it settles for the order bound's floor.
-_NEEDS_BUDGET = 20_000
+# Work of _needs_floor per bound (target clusters looked at, summed over branches)
+# before it settles for the order bound's floor: about 10 000 branches at 12 leaves.
+_NEEDS_BUDGET = 100_000
 
 
 # ---------------------------------------------------------------------------
@@ -733,12 +739,13 @@ def _astar(
     came: dict[int, int] = {}
     closed: set[int] = set()
     closed_g: dict[int, int] = {}
+    # the start's bound is raised lazily like any other state's
     a0 = len(source - target)
-    h0 = packed(lower_bound(source, target, n), a0)
+    h0 = packed(_order_bound(sorted(source - target), sorted(target - source), 0, parts), a0)
     if limit is not None and h0 >= limit:
         return None
     # entries: f, -moves, tie, state, g, checked (the bound was tested at this f)
-    heap: list[tuple[int, int, int, int, int, bool]] = [(h0, 0, next(counter), start, 0, True)]
+    heap: list[tuple[int, int, int, int, int, bool]] = [(h0, 0, next(counter), start, 0, False)]
     push = heapq.heappush
     pop = heapq.heappop
     while heap:
@@ -956,7 +963,8 @@ def _shorten(trees: list[frozenset[int]], n: int) -> list[frozenset[int]]:
     second at 24 leaves).
     """
     trees = _cut_cycles(trees)
-    widths = (3, 4, 5, 6, 7, 8)
+    # wider windows pay off where the bound prunes them quickly (up to 16 leaves)
+    widths = (3, 4, 5, 6, 7, 8, 10, 12) if n <= 16 else (3, 4, 5, 6, 7, 8)
     searches = 0
     improved = True
     while improved:
@@ -996,9 +1004,24 @@ def _cut_cycles(trees: list[frozenset[int]]) -> list[frozenset[int]]:
 def _heuristic(source: frozenset[int], target: frozenset[int], n: int) -> list[frozenset[int]]:
     """Best of a few greedy constructions, then local improvement (small n only).
 
-    A fixed amount of work, not a time budget: the same pair always gets the
-    same path.
+    Up to :data:`EXACT_MAX_LEAVES` leaves the construction also runs from the target
+    back to the source (moves are reversible), and the shorter path (then the one of
+    fewer sums) is kept: the two directions often differ by several moves.  A fixed
+    amount of work, not a time budget: the same pair always gets the same path.
     """
+    forward = _one_way(source, target, n)
+    if n > EXACT_MAX_LEAVES:
+        return forward
+    backward = list(reversed(_one_way(target, source, n)))
+
+    def cost(path: list[frozenset[int]]) -> tuple[int, int]:
+        return len(path), _sums_of(tuple(path), target)
+
+    return backward if cost(backward) < cost(forward) else forward
+
+
+def _one_way(source: frozenset[int], target: frozenset[int], n: int) -> list[frozenset[int]]:
+    """The greedy constructions from ``source`` towards ``target``, the best shortened."""
     runs = 8 if n <= 24 else 4 if n <= 40 else 1
     best: list[tuple[int, int]] | None = None
     for seed in range(runs):
