@@ -331,33 +331,65 @@ def test_lower_bound_beats_matching_and_fallback_admissible(
 
 
 def _needs_reference(source: frozenset[int], target: frozenset[int], n: int) -> int:
-    """Least max(a - |M|, |N(M)|) over every matching M of crossing pairs, by brute
-    force: the needs argument of recouple.recoupling.search._needs_floor, written
-    from its statement (a pair (s, t) needs s & t, s - t, t - s and s | t present;
-    those outside both trees, not leaves and not the root, must be created)."""
+    """Least |N(M)| + E(M) over every matching M of crossing pairs, by brute force:
+    the argument of recouple.recoupling.search._needs_floor, written from its
+    statement.  A pair (s, t) needs s & t, s - t, t - s and s | t present; those
+    outside both trees, not leaves and not the root, form N(M).  E(M), the other
+    created clusters, is at least X minus a matching of the X idle removals (or of
+    the X unmatched targets) into crossing members of N(M), and at least 1 when
+    either matching cannot cover all X with every set of its moves present."""
     gone = sorted(source - target)
     new = sorted(target - source)
     root = (1 << n) - 1
+    known = source | target
 
-    def needed(s: int, t: int) -> frozenset[int]:
-        parts = (s & t, s & ~t, t & ~s, s | t)
-        return frozenset(
-            w
-            for w in parts
-            if bin(w).count("1") > 1 and w != root and w not in source and w not in target
-        )
+    def crosses(a: int, b: int) -> bool:
+        return bool(a & b and a & ~b and b & ~a)
 
-    def best(i: int, used: frozenset[int], matched: int, need: frozenset[int]) -> int:
-        if i == len(new):
-            return max(len(gone) - matched, len(need))
-        t = new[i]
-        out = best(i + 1, used, matched, need)
-        for s in gone:
-            if s not in used and s & t and s & ~t and t & ~s:
-                out = min(out, best(i + 1, used | {s}, matched + 1, need | needed(s, t)))
+    def sets(a: int, b: int) -> tuple[int, int, int, int]:
+        return (a & b, a & ~b, b & ~a, a | b)
+
+    def here(w: int, made: frozenset[int]) -> bool:
+        return bin(w).count("1") == 1 or w == root or w in known or w in made
+
+    def most(left: list[int], right: list[int], ok: object) -> int:
+        # largest matching by trying every injective choice (tiny sizes)
+        assert callable(ok)
+        if not left:
+            return 0
+        head, tail = left[0], left[1:]
+        out = most(tail, right, ok)
+        for r in right:
+            if ok(head, r):
+                out = max(out, 1 + most(tail, [x for x in right if x != r], ok))
         return out
 
-    return best(0, frozenset(), 0, frozenset())
+    def cost(pairs: list[tuple[int, int]]) -> int:
+        made = frozenset(w for s, t in pairs for w in sets(s, t) if not here(w, frozenset()))
+        idle = [s for s in gone if all(s != p for p, _ in pairs)]
+        lone = [t for t in new if all(t != q for _, q in pairs)]
+        x = len(idle)
+        ws = sorted(made)
+        extra = max(x - most(idle, ws, crosses), x - most(lone, ws, crosses), 0)
+
+        def strict(a: int, w: int) -> bool:
+            return crosses(a, w) and all(here(q, made) for q in sets(a, w))
+
+        if extra == 0 and x and (most(idle, ws, strict) < x or most(lone, ws, strict) < x):
+            extra = 1
+        return len(made) + extra
+
+    def best(i: int, used: frozenset[int], pairs: list[tuple[int, int]]) -> int:
+        if i == len(new):
+            return cost(pairs)
+        t = new[i]
+        out = best(i + 1, used, pairs)
+        for s in gone:
+            if s not in used and crosses(s, t):
+                out = min(out, best(i + 1, used | {s}, [*pairs, (s, t)]))
+        return out
+
+    return best(0, frozenset(), [])
 
 
 @pytest.mark.parametrize("n", [5, 6, 7])

@@ -21,9 +21,10 @@ import heapq
 import random
 import time
 from bisect import bisect_left
-from collections.abc import Iterable, Iterator
+from collections.abc import Callable, Iterable, Iterator
 from dataclasses import dataclass, field
 from itertools import count
+from typing import NamedTuple
 
 from recouple.errors import BadValue, BudgetExceeded
 
@@ -485,16 +486,26 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
     branch and bound (own argument; checked against brute force in
     tests/test_search.py).  Past ``_NEEDS_BUDGET`` units of work it returns ``floor``,
     the order bound's ``a - P``, which is admissible on its own.
+
+    Sharper: count created clusters as instances.  One instance per cluster of
+    ``N(M)``; ``E`` others.  Each of the ``a - |M|`` other first removals creates its
+    own instance, crossing the removed cluster, and each target cluster left out of
+    ``M`` is first created by removing its own instance, crossing it; at most a
+    matching of them can be instances of ``N(M)``, so ``E`` is at least ``a - |M|``
+    minus either matching.  And if ``E = 0`` every present cluster is a leaf, the
+    root, known or in ``N(M)``, so both assignments must exist with the four sets of
+    each of their moves among those: else ``E >= 1``.  So ``k >= |N(M)| + E``, which
+    is at least ``max(a - |M|, |N(M)|)`` (see :func:`_extra_instances`).
     """
     a = len(gone)
     if a == 0:
         return 0
-    options = _needs_options(gone, new, known, n)
+    problem = _needs_options(gone, new, known, n)
     # k <= v iff some matching leaves at most v of the a target clusters unmatched
     # (a - |M| <= v) and needs at most v clusters; try v upwards from the floor.
     left = [_NEEDS_BUDGET]  # shared by the tests: one budget per bound
     for v in range(max(floor, 0), a):
-        found = _needs_fit(options, v, left)
+        found = _needs_fit(problem, v, left)
         if found is None:
             return max(floor, v)  # every smaller v was refuted: still a bound
         if found:
@@ -502,11 +513,21 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
     return a
 
 
-def _needs_options(
-    gone: list[int], new: list[int], known: frozenset[int], n: int
-) -> list[list[tuple[int, int]]]:
-    """Per target cluster to create, its crossing clusters to remove (as bits of
-    ``gone``) with the bitmask of the clusters that pair needs (see :func:`_needs_floor`)."""
+class _Needs(NamedTuple):
+    """One needs problem (see :func:`_needs_floor`).  ``options[j]`` lists, for the
+    target cluster ``new[j]``, its crossing clusters to remove (bits of ``gone``) with
+    the bitmask of the clusters that pair needs (bits of ``needed``)."""
+
+    options: list[list[tuple[int, int]]]
+    needed: list[int]
+    gone: list[int]
+    new: list[int]
+    known: frozenset[int]
+    root: int
+
+
+def _needs_options(gone: list[int], new: list[int], known: frozenset[int], n: int) -> _Needs:
+    """The needs problem of a tree (clusters ``known`` with the target's)."""
     root = (1 << n) - 1
     ids: dict[int, int] = {}
     options: list[list[tuple[int, int]]] = []
@@ -521,25 +542,39 @@ def _needs_options(
                 opts.append((1 << i, need))
         opts.sort(key=lambda o: o[1].bit_count())
         options.append(opts)
-    return options
+    return _Needs(options, list(ids), gone, new, known, root)
 
 
-def _needs_fit(
-    options: list[list[tuple[int, int]]], v: int, left: list[int] | None = None
-) -> bool | None:
-    """Whether some matching leaves at most ``v`` target clusters unmatched and
-    needs at most ``v`` clusters (``k <= v`` is possible); None when out of budget
-    (``left[0]`` units of work, :data:`_NEEDS_BUDGET` if not given)."""
+def _needs_fit(problem: _Needs, v: int, left: list[int] | None = None) -> bool | None:
+    """Whether ``k <= v`` is possible: some matching leaves at most ``v`` target
+    clusters unmatched, needs at most ``v`` clusters, and passes
+    :func:`_extra_instances`; None when out of budget (``left[0]`` units of work,
+    :data:`_NEEDS_BUDGET` if not given).
+
+    The test without the instance count runs first: it prunes harder and often
+    settles the question alone."""
     if left is None:
         left = [_NEEDS_BUDGET]
-    failed: set[tuple[int, int, int]] = set()
+    loose = _needs_search(problem, v, left, False)
+    if not loose:
+        return loose
+    return _needs_search(problem, v, left, True)
 
-    def fits(rest: int, used: int, skips: int, need: int) -> bool | None:
+
+def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool | None:
+    """The branch and bound of :func:`_needs_fit`; ``count``: apply
+    :func:`_extra_instances` to each complete matching."""
+    options = problem.options
+    failed: set[tuple[int, int, int, int]] = set()
+
+    def fits(rest: int, used: int, skips: int, need: int, matched: int) -> bool | None:
         """Whether the target clusters in ``rest`` can be matched with at most
         ``v - skips`` more skipped; branches on the one with the fewest options that fit."""
         if not rest:
-            return True
-        key = (rest, used, need)
+            return (
+                not count or _extra_instances(problem, used, matched, need) <= v - need.bit_count()
+            )
+        key = (rest, used, need, matched)
         if key in failed:
             return False
         left[0] -= rest.bit_count()  # the work of one branch grows with what is left
@@ -548,7 +583,7 @@ def _needs_fit(
         best_fit: list[tuple[int, int]] | None = None
         best_t = 0
         dead = skips  # clusters with no option that fits must be skipped
-        costly: list[int] = []  # per cluster with no free option: clusters it could add
+        costly: list[dict[int, int]] = []  # per cluster with no free option: its shares
         r = rest
         while r:
             b = r & -r
@@ -567,42 +602,108 @@ def _needs_fit(
                 continue
             if best_fit is None or len(fit) < len(best_fit):
                 best_fit, best_t = fit, b
-            adds = 0
+            shares: dict[int, int] = {}  # new cluster -> best share of this t (see below)
             for _, more in fit:
                 if more == need:
                     break
-                adds |= more & ~need
+                extra = more & ~need
+                share = _SHARE[extra.bit_count()]
+                while extra:
+                    w = extra & -extra
+                    extra ^= w
+                    if shares.get(w, 0) < share:
+                        shares[w] = share
             else:
-                costly.append(adds)
-        if best_fit is None:
-            return True  # every remaining cluster skipped, within the allowance
+                costly.append(shares)
+        if best_fit is None:  # every remaining cluster skipped, within the allowance
+            return (
+                not count or _extra_instances(problem, used, matched, need) <= v - need.bit_count()
+            )
         if len(costly) > v - dead:
-            # each costly cluster is skipped or matched through a new needed cluster;
-            # room for v - |need| more, each serving at most the clusters it appears in
-            counts: dict[int, int] = {}
-            for adds in costly:
-                while adds:
-                    w = adds & -adds
-                    adds ^= w
-                    counts[w] = counts.get(w, 0) + 1
+            # Each costly cluster is skipped or matched by an option adding new needed
+            # clusters (room for v - |need| of them).  Charge a matched cluster 1/m to
+            # each of the m clusters its option adds: a new cluster w then carries at
+            # most the sum over costly clusters of their best 1/m through w, so the
+            # number matched is at most the sum of the largest `room` such capacities.
+            capacity: dict[int, int] = {}
+            for offered in costly:
+                for w, share in offered.items():
+                    capacity[w] = capacity.get(w, 0) + share
             room = v - need.bit_count()
-            served = sum(sorted(counts.values(), reverse=True)[:room])
-            if len(costly) - served > v - dead:
+            served = sum(sorted(capacity.values(), reverse=True)[:room])
+            if (len(costly) - (v - dead)) * _SHARE[1] > served:
                 failed.add(key)
                 return False
         for bit, more in best_fit:
-            found = fits(rest ^ best_t, used | bit, dead, more)
+            found = fits(rest ^ best_t, used | bit, dead, more, matched | best_t)
             if found is not False:
                 return found
         if dead < v:
-            found = fits(rest ^ best_t, used, dead + 1, need)
+            found = fits(rest ^ best_t, used, dead + 1, need, matched)
             if found is not False:
                 return found
         failed.add(key)
         return False
 
-    return fits((1 << len(options)) - 1, 0, 0, 0)
+    return fits((1 << len(options)) - 1, 0, 0, 0, 0)
 
+
+def _extra_instances(problem: _Needs, used: int, matched: int, need: int) -> int:
+    """A lower bound on ``E`` of :func:`_needs_floor` for one matching ``M``.
+
+    ``used`` and ``matched`` are its removed and created clusters (bits of ``gone``
+    and ``new``), ``need`` its needed clusters (bits of ``needed``).
+    """
+    gone, new, needed = problem.gone, problem.new, problem.needed
+    idle = [s for i, s in enumerate(gone) if not used >> i & 1]
+    if not idle:
+        return 0
+    x = len(idle)
+    made = [w for i, w in enumerate(needed) if need >> i & 1]
+    lone = [t for j, t in enumerate(new) if not matched >> j & 1]
+    # loose: an idle removal creates, and a lone target is made from, a crossing cluster
+    extra = max(x - _assign(idle, made, _crosses), x - _assign(lone, made, _crosses))
+    if extra >= 1:
+        return extra
+    # E = 0 would need both assignments with every set of their moves present
+    present = set(made) | problem.known
+    root = problem.root
+
+    def fine(s: int, w: int) -> bool:
+        if not _crosses(s, w):
+            return False
+        for q in (s & w, s & ~w, w & ~s, s | w):
+            if q & (q - 1) and q != root and q not in present:
+                return False
+        return True
+
+    if _assign(idle, made, fine) < x or _assign(lone, made, fine) < x:
+        return 1
+    return 0
+
+
+def _assign(left: list[int], right: list[int], ok: Callable[[int, int], bool]) -> int:
+    """Size of a maximum matching between ``left`` and ``right`` along ``ok``.
+
+    >>> _assign([1, 2], [3], lambda a, b: True)
+    1
+    """
+    owner: dict[int, int] = {}  # right index -> left index
+
+    def augment(i: int, seen: set[int]) -> bool:
+        for j, r in enumerate(right):
+            if j not in seen and ok(left[i], r):
+                seen.add(j)
+                if j not in owner or augment(owner[j], seen):
+                    owner[j] = i
+                    return True
+        return False
+
+    return sum(1 for i in range(len(left)) if augment(i, set()))
+
+
+# 1/m in units of 1/12 (an option adds at most 4 clusters), for exact integer sums.
+_SHARE = (0, 12, 6, 4, 3)
 
 # Work of _needs_floor per bound (target clusters looked at, summed over branches)
 # before it settles for the order bound's floor: about 10 000 branches at 12 leaves.
@@ -706,8 +807,8 @@ def _astar(
         :func:`_needs_fit` (the costly part) rather than the whole bound.
         """
         gone_key = tuple(c for c in cl if c not in tgt)
-        lo = bounds.get(gone_key, 0)
-        if lo > need:
+        lo = bounds.get(gone_key)
+        if lo is not None and lo > need:
             return lo
         a = len(gone_key)
         have = set(cl)
@@ -715,7 +816,8 @@ def _astar(
         gone = list(gone_key)
         # cheapest first: the order bound with one idle removal per stuck group, then
         # one test of the needs bound, then the full order bound
-        lo = max(lo, _order_bound(gone, new, 0, parts))
+        if lo is None:
+            lo = _order_bound(gone, new, 0, parts)
         # is k <= need - a possible?  If not, the bound exceeds need.
         if (
             lo <= need
@@ -1082,8 +1184,10 @@ def shortest_path(
     if n <= EXACT_MAX_LEAVES:
         # Most small cases finish at once; a short unbounded try avoids the heuristic.
         quick = _QUICK if max_expansions is None else min(_QUICK, max_expansions)
+        # at most half the time: the heuristic and the pruned search come after it
+        early = None if deadline is None else start + (deadline - start) / 2
         try:
-            path = _astar(source, target, n, quick, deadline, None, stats, cache)
+            path = _astar(source, target, n, quick, early, None, stats, cache)
             optimal, method = True, "exact"
         except _OutOfBudget as out:
             lb = max(lb, out.bound)
