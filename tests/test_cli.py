@@ -55,6 +55,18 @@ def test_derive_text_and_moves() -> None:
     assert "shortest Racah path: 1 move(s), proven shortest" in out
     out = ok("derive", *THREE, "--moves")
     assert "#  1. 6j {a b e; c J f}: ((a,b)e,c)J -> (a,(b,c)f)J" in out
+    assert "absent from the formula" not in out  # nothing summed on this path
+
+
+def test_derive_moves_names_labels_folded_away() -> None:
+    # LS-jj: the plain path sums over x1, the formula is one 9j with no sum.
+    out = ok("derive", JJ, LS, "--moves")
+    assert derive(JJ, LS).formula.sums == ()
+    assert "x1" in out.split("# shortest Racah path")[1]
+    assert out.rstrip().endswith(
+        "# x1: summed along this path, absent from the formula above"
+        " (folded by a 9j, a sum rule or a path with 9j moves)"
+    )
 
 
 def test_derive_json() -> None:

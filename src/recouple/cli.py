@@ -197,6 +197,19 @@ def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     if args.moves:
         for i, move in enumerate(d.moves, 1):
             print(f"#  {i}. {move.describe()}: {move.before} -> {move.after}", file=out)
+        # labels the listed path introduces that the printed formula no longer sums over
+        ends = set(d.path[0].labels()) | set(d.path[-1].labels())
+        folded = [
+            name
+            for name in dict.fromkeys(x for tree in d.path for x in tree.labels())
+            if name not in ends and name not in f.sums
+        ]
+        if folded:
+            print(
+                f"# {', '.join(folded)}: summed along this path, absent from the formula"
+                " above (folded by a 9j, a sum rule or a path with 9j moves)",
+                file=out,
+            )
     return 0
 
 

@@ -566,14 +566,24 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
     :func:`_extra_instances` to each complete matching."""
     options = problem.options
     failed: set[tuple[int, int, int, int]] = set()
+    a = len(problem.gone)
+
+    def complete(used: int, need: int, matched: int) -> bool | None:
+        """Whether a complete matching passes (``k <= v`` with its ``E``)."""
+        room = v - need.bit_count()
+        idle = a - used.bit_count()
+        if not count or idle <= room:  # E never exceeds the idle removals
+            return True
+        left[0] -= a * (need.bit_count() + 1)  # the matchings of _extra_instances
+        if left[0] < 0:
+            return None
+        return _extra_instances(problem, used, matched, need) <= room
 
     def fits(rest: int, used: int, skips: int, need: int, matched: int) -> bool | None:
         """Whether the target clusters in ``rest`` can be matched with at most
         ``v - skips`` more skipped; branches on the one with the fewest options that fit."""
         if not rest:
-            return (
-                not count or _extra_instances(problem, used, matched, need) <= v - need.bit_count()
-            )
+            return complete(used, need, matched)
         key = (rest, used, need, matched)
         if key in failed:
             return False
@@ -616,9 +626,7 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
             else:
                 costly.append(shares)
         if best_fit is None:  # every remaining cluster skipped, within the allowance
-            return (
-                not count or _extra_instances(problem, used, matched, need) <= v - need.bit_count()
-            )
+            return complete(used, need, matched)
         if len(costly) > v - dead:
             # Each costly cluster is skipped or matched by an option adding new needed
             # clusters (room for v - |need| of them).  Charge a matched cluster 1/m to
@@ -1178,6 +1186,7 @@ def shortest_path(
     deadline = None if max_seconds is None else start + max_seconds
     stats = _Stats()
     cache = _BoundCache()  # both exact tries search towards the same target
+    cache.trees[tuple(sorted(source - target))] = lb  # the start's bound, already paid for
     path: tuple[frozenset[int], ...] | None = None
     optimal = False
     method = "heuristic"
