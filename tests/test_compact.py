@@ -159,6 +159,110 @@ def test_compact_search_reports_proof_or_budget() -> None:
     assert not starved.optimal
 
 
+def _ref_parts(tree: frozenset[int], n: int) -> dict[int, tuple[int, int]]:
+    """The two parts of every coupling (root included), found from the laminar
+    family directly: the maximal clusters inside it, and the leaves left over."""
+    root = (1 << n) - 1
+    parts = {}
+    for c in [*tree, root]:
+        inner = [d for d in tree if d != c and d & c == d]
+        top = [d for d in inner if not any(e != d and e & d == d for e in inner)]
+        covered = 0
+        for d in top:
+            covered |= d
+        kids = top + [1 << i for i in range(n) if c >> i & 1 and not covered >> i & 1]
+        assert len(kids) == 2
+        parts[c] = (kids[0], kids[1])
+    return parts
+
+
+def _fewest_sums_reference(source: frozenset[int], target: frozenset[int], n: int) -> int:
+    """Fewest sums over paths of Racah and 9j moves, by Dijkstra over every tree; a sum
+    is a removed coupling that the source does not have (CONVENTIONS 3.5)."""
+    import heapq
+
+    best = {source: 0}
+    heap = [(0, sorted(source), source)]
+    while heap:
+        cost, _, tree = heapq.heappop(heap)
+        if tree == target:
+            return cost
+        if cost > best[tree]:
+            continue
+        parts = _ref_parts(tree, n)
+        steps = []
+        for u, v in parts.values():
+            for c, z in ((u, v), (v, u)):
+                if c in tree:  # Racah move at c under its parent
+                    x, y = parts[c]
+                    steps += [((tree - {c}) | {x | z}, {c}), ((tree - {c}) | {y | z}, {c})]
+            if u in tree and v in tree:  # 9j move of the four grandchildren
+                (a, b), (c, d) = parts[u], parts[v]
+                gone = {u, v}
+                steps += [
+                    ((tree - gone) | {a | c, b | d}, gone),
+                    ((tree - gone) | {a | d, b | c}, gone),
+                ]
+        for new, removed in steps:
+            new = frozenset(new)
+            c2 = cost + sum(1 for r in removed if r not in source)
+            if c2 < best.get(new, c2 + 1):
+                best[new] = c2
+                heapq.heappush(heap, (c2, sorted(new), new))
+    raise AssertionError("target not reached")
+
+
+@pytest.mark.parametrize("n", [5, 6])
+def test_fewest_sums_and_its_bound_against_dijkstra(n: int) -> None:
+    # The compact search's sums (A* with the bound of couplings still owed) equal an
+    # independent Dijkstra over all trees, and a starved search's bound never exceeds it.
+    rng = random.Random(500 + n)
+    masks = [1 << i for i in range(n)]
+    for _ in range(25):
+        source, target = _random_masks(masks, rng), _random_masks(masks, rng)
+        want = _fewest_sums_reference(source, target, n)
+        full = compact_path(source, target, n, max_expansions=10**6)
+        assert full.found
+        assert full.optimal
+        assert full.cost[0] == full.sums_bound == want
+        for budget in (1, 5, 20):
+            starved = compact_path(source, target, n, max_expansions=budget)
+            assert starved.sums_bound <= want
+            if starved.found:
+                assert starved.cost[0] == want
+
+
+def _random_masks(masks: list[int], rng: random.Random) -> frozenset[int]:
+    """A random tree as its non-root cluster bitmasks (random merges; common practice)."""
+    pool = list(masks)
+    clusters = set()
+    while len(pool) > 1:
+        a, b = rng.sample(pool, 2)
+        pool.remove(a)
+        pool.remove(b)
+        pool.append(a | b)
+        clusters.add(a | b)
+    return frozenset(clusters - {pool[0]})
+
+
+def test_compact_search_settles_eight_leaf_pairs() -> None:
+    # Issue target: fewest sums proven over Racah and 9j moves at 8 leaves.
+    rng = random.Random(88)
+    leaves = [f"j{i}" for i in range(1, 9)]
+    settled = 0
+    while settled < 6:
+        a, b = random_tree(leaves, rng), random_tree(leaves, rng)
+        d = derive(a, b)
+        if not d.sums_on_plain_path:
+            continue
+        assert d.compact_status in (
+            "proven: no form with fewer sums",
+            "fewer sums than the plain path (proven fewest)",
+        ), d.compact_status
+        assert d.sums_lower_bound == len(d.formula.sums)
+        settled += 1
+
+
 @pytest.mark.parametrize("compact", [True, False])
 def test_switching_the_compact_search_off(compact: bool) -> None:
     a = "(j1,(j2,(j3,(j4,j5)k45)k345)k2345)J"

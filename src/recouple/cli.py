@@ -152,6 +152,7 @@ def _derivation_json(d: Any) -> dict[str, Any]:
         "sums": list(f.sums),
         "sums_on_plain_path": d.sums_on_plain_path,
         "fewer_sums_search": d.compact_status,
+        "sums_lower_bound": d.sums_lower_bound,
         "racah_moves_used": d.racah_moves,
         "ninej_moves_used": d.ninej_moves,
         "symbols": {"6j": counts["6j"], "9j": counts["9j"]},
@@ -192,6 +193,12 @@ def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
         print(
             f"# a form with fewer sums than the shortest Racah path: {len(f.sums)} instead of "
             f"{d.sums_on_plain_path} (uses {d.ninej_moves} 9j move(s))",
+            file=out,
+        )
+    if f.sums and d.sums_lower_bound < len(f.sums):
+        print(
+            f"# fewer sums not ruled out: paths of Racah and 9j moves need at least "
+            f"{d.sums_lower_bound} ({d.compact_status})",
             file=out,
         )
     if args.moves:
@@ -431,7 +438,8 @@ def build_parser() -> argparse.ArgumentParser:
         '  recouple derive "((l1,s1)j1,(l2,s2)j2)J" "((l1,l2)L,(s1,s2)S)J" --latex --standalone\n'
         '  recouple derive "((a,b)e,c)J" "(a,(b,c)f)J" --python\n'
         "\nJSON keys: from, to, steps, lower_bound, optimal, method, sums, sums_on_plain_path,"
-        "\nfewer_sums_search, racah_moves_used, ninej_moves_used, symbols, deltas, moves, text.",
+        "\nfewer_sums_search, sums_lower_bound, racah_moves_used, ninej_moves_used, symbols,"
+        " deltas, moves, text.",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_search_options(p)

@@ -11,9 +11,11 @@ couplings, no sum; CONVENTIONS 3.3), and a path costs, in this order:
 3. Racah moves.
 
 The search is A* over trees as cluster bitmask sets (as in
-:mod:`recouple.recoupling.search`), exact within its budget; the symbol count
-has the admissible bound ceil(|source - target| / 2), since a move replaces at
-most two clusters.  It is run for schemes of up to :data:`COMPACT_MAX_LEAVES`
+:mod:`recouple.recoupling.search`), exact within its budget.  The sums have the
+admissible bound of the couplings alive in neither scheme (each must still be
+destroyed, one sum each), so creating one costs at once; the symbol count has
+the admissible bound ceil(|source - target| / 2), since a move replaces at most
+two clusters.  It is run for schemes of up to :data:`COMPACT_MAX_LEAVES`
 leaves; :func:`~recouple.recoupling.derive.derive` keeps whichever formula,
 this one or the plain path's, has fewer sums.
 
@@ -38,8 +40,9 @@ from recouple.recoupling.search import children
 __all__ = ["COMPACT_MAX_EXPANSIONS", "COMPACT_MAX_LEAVES", "CompactResult", "compact_path"]
 
 #: Largest number of leaves for which derive() runs the compact search by default
-#: (at 8 leaves it rarely settles within its budget; call compact_path directly).
-COMPACT_MAX_LEAVES = 7
+#: (it settles every random pair tried at 8 leaves and about half at 10 within its
+#: budget; beyond, call compact_path directly).
+COMPACT_MAX_LEAVES = 10
 #: Default budget of expanded states (n = 8 has 135 135 trees in all; CONVENTIONS 5.1).
 #: The budget is a count, so results do not depend on machine load; the time limit
 #: (``max_seconds``) is only a safety net.
@@ -56,6 +59,9 @@ class CompactResult:
     ``path[i + 1]``; ``optimal`` is True when the search finished within budget.
     When nothing was found (``found`` False), ``optimal`` tells whether that is
     proven (the whole pruned space was searched) or the budget ran out.
+    ``sums_bound`` is proven: no path of Racah and 9j moves has fewer sums (the
+    found path's sums; ``below_sums`` when none below it exists; out of budget, the
+    least bound left open).
     """
 
     found: bool
@@ -64,6 +70,7 @@ class CompactResult:
     cost: tuple[int, int, int]
     optimal: bool
     expanded: int
+    sums_bound: int
 
 
 def _moves(tree: Tree, n: int) -> Iterator[tuple[Tree, str, frozenset[int]]]:
@@ -110,9 +117,14 @@ def compact_path(
     whether a path was found and whether the search finished.
     """
     deadline = time.monotonic() + max_seconds
+    ends = source | target
 
     def bound(tree: Tree) -> int:
         return (len(tree - target) + 1) // 2
+
+    def alive(tree: Tree) -> int:
+        """Sums still owed: every cluster in neither scheme must be destroyed later."""
+        return len(tree - ends)
 
     counter = itertools.count()
     start_cost = (0, 0, 0)
@@ -123,28 +135,31 @@ def compact_path(
     back: dict[Tree, tuple[Tree, str]] = {}
     expanded = 0
     while heap:
-        _, _, cost, tree = heapq.heappop(heap)
+        priority, _, cost, tree = heapq.heappop(heap)
         if best.get(tree) != cost:
             continue
         if tree == target:
             return _result(source, target, back, cost, True, expanded)
         expanded += 1
         if expanded > max_expansions or time.monotonic() > deadline:
-            return CompactResult(False, (), (), (0, 0, 0), False, expanded)
+            # the bound is consistent, so every open path owes at least this many sums
+            return CompactResult(False, (), (), (0, 0, 0), False, expanded, priority[0])
         sums, symbols, racah = cost
         for new, kind, removed in _moves(tree, n):
             new_sums = sum(1 for r in removed if r not in source)
             step_cost = (sums + new_sums, symbols + 1, racah + (kind == "racah"))
-            if below_sums is not None and step_cost[0] >= below_sums:
+            owed = step_cost[0] + alive(new)
+            if below_sums is not None and owed >= below_sums:
                 continue
             old = best.get(new)
             if old is not None and old <= step_cost:
                 continue
             best[new] = step_cost
             back[new] = (tree, kind)
-            priority = (step_cost[0], step_cost[1] + bound(new), step_cost[2])
-            heapq.heappush(heap, (priority, next(counter), step_cost, new))
-    return CompactResult(False, (), (), (0, 0, 0), True, expanded)
+            rank = (owed, step_cost[1] + bound(new), step_cost[2])
+            heapq.heappush(heap, (rank, next(counter), step_cost, new))
+    # nothing below below_sums (the target is always reachable without the cut-off)
+    return CompactResult(False, (), (), (0, 0, 0), True, expanded, below_sums or 0)
 
 
 def _result(
@@ -163,4 +178,4 @@ def _result(
         kinds.append(kind)
     trees.reverse()
     kinds.reverse()
-    return CompactResult(True, tuple(trees), tuple(kinds), cost, optimal, expanded)
+    return CompactResult(True, tuple(trees), tuple(kinds), cost, optimal, expanded, cost[0])

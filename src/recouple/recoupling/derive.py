@@ -39,8 +39,10 @@ class Derivation:
     has fewer summations, that of a path that also uses 9j moves
     (:mod:`recouple.recoupling.compact`); ``path`` and ``moves`` are the path
     behind ``formula`` (``len(moves) + 1`` trees, exchanges included), and
-    ``sums_on_plain_path`` counts the summations the plain path needs and
-    ``compact_status`` says what the search for fewer sums found.
+    ``sums_on_plain_path`` counts the summations the plain path needs,
+    ``compact_status`` says what the search for fewer sums found, and
+    ``sums_lower_bound`` is proven: no path of Racah and 9j moves gives fewer
+    summations (0 when that search did not run; never above the formula's own).
     """
 
     source: Coupling
@@ -54,6 +56,7 @@ class Derivation:
     formula: Formula
     sums_on_plain_path: int
     compact_status: str
+    sums_lower_bound: int
 
     def _repr_svg_(self) -> str:
         """A drawing of the path, for notebooks (the writer lives in recouple.outputs)."""
@@ -164,6 +167,7 @@ def derive(
     formula = simplify(walk.formula())
     plain_sums = len(formula.sums)
     status = "no sums on the plain path"
+    sums_bound = 0
     if formula.sums and not compact:
         status = "not searched"
     elif formula.sums and len(leaves) > COMPACT_MAX_LEAVES:
@@ -171,6 +175,7 @@ def derive(
     elif formula.sums:
         found = compact_path(a_masks, b_masks, len(leaves), below_sums=plain_sums)
         status = "proven: no form with fewer sums" if found.optimal else "search out of budget"
+        sums_bound = found.sums_bound
         if found.found:
             other = _Walk(a, b, bit, b_named, found.path, found.kinds)
             other_formula = simplify(other.formula())
@@ -191,6 +196,7 @@ def derive(
         formula=formula,
         sums_on_plain_path=plain_sums,
         compact_status=status,
+        sums_lower_bound=min(sums_bound, len(formula.sums)),
     )
 
 
