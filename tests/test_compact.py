@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import io
 import itertools
 import random
 
@@ -261,6 +262,25 @@ def test_compact_search_settles_eight_leaf_pairs() -> None:
         ), d.compact_status
         assert d.sums_lower_bound == len(d.formula.sums)
         settled += 1
+
+
+def test_beyond_the_full_budget_a_short_search_proves_a_bound_on_sums() -> None:
+    # 14 leaves: the short compact search rarely settles, but its bound is proven
+    # (every open path still owes that many sums) and is reported, also by the CLI.
+    from recouple.cli import main
+
+    rng = random.Random(1414)
+    leaves = [f"j{i}" for i in range(1, 15)]
+    a, b = random_tree(leaves, rng), random_tree(leaves, rng)
+    d = derive(a, b, max_seconds=0.5)
+    assert d.formula.sums
+    assert 0 < d.sums_lower_bound < len(d.formula.sums)
+    assert d.compact_status == "search out of budget"
+    out = io.StringIO()
+    assert main(["derive", str(a), str(b), "--max-seconds", "0.5"], out=out) == 0
+    line = next(x for x in out.getvalue().splitlines() if "fewer sums not ruled out" in x)
+    assert line.startswith("# fewer sums not ruled out: paths of Racah and 9j moves need at least")
+    assert line.endswith("(search out of budget)")
 
 
 @pytest.mark.parametrize("compact", [True, False])

@@ -37,12 +37,24 @@ from dataclasses import dataclass
 from recouple.recoupling.search import _structure as structure
 from recouple.recoupling.search import children
 
-__all__ = ["COMPACT_MAX_EXPANSIONS", "COMPACT_MAX_LEAVES", "CompactResult", "compact_path"]
+__all__ = [
+    "COMPACT_BOUND_MAX_LEAVES",
+    "COMPACT_MAX_EXPANSIONS",
+    "COMPACT_MAX_LEAVES",
+    "COMPACT_SHORT_EXPANSIONS",
+    "CompactResult",
+    "compact_path",
+]
 
 #: Largest number of leaves for which derive() runs the compact search by default
 #: (it settles every random pair tried at 8 leaves and about half at 10 within its
 #: budget; beyond, call compact_path directly).
 COMPACT_MAX_LEAVES = 10
+#: Up to this many leaves derive() still runs a short compact search
+#: (:data:`COMPACT_SHORT_EXPANSIONS` states, a fraction of a second at 24 leaves),
+#: for the lower bound on sums it proves and any saving it finds on the way.
+COMPACT_BOUND_MAX_LEAVES = 24
+COMPACT_SHORT_EXPANSIONS = 500
 #: Default budget of expanded states (n = 8 has 135 135 trees in all; CONVENTIONS 5.1).
 #: The budget is a count, so results do not depend on machine load; the time limit
 #: (``max_seconds``) is only a safety net.

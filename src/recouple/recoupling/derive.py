@@ -15,7 +15,13 @@ from collections import Counter
 from dataclasses import dataclass
 
 from recouple.errors import BadValue, SchemeMismatch
-from recouple.recoupling.compact import COMPACT_MAX_LEAVES, compact_path
+from recouple.recoupling.compact import (
+    COMPACT_BOUND_MAX_LEAVES,
+    COMPACT_MAX_EXPANSIONS,
+    COMPACT_MAX_LEAVES,
+    COMPACT_SHORT_EXPANSIONS,
+    compact_path,
+)
 from recouple.recoupling.formula import Formula, simplify
 from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
 from recouple.recoupling.search import SearchResult, shortest_path
@@ -135,9 +141,11 @@ def derive(
     The formula is for the overlap ``<source|target>``; both schemes may be given
     as text.  ``max_expansions`` and ``max_seconds`` bound the exact search (the
     defaults are the search's own); past them a heuristic path is used and
-    ``optimal`` is False.  With ``compact`` (the default) and at most
-    :data:`~recouple.recoupling.compact.COMPACT_MAX_LEAVES` leaves, a formula with
-    fewer summations than the plain path's is looked for and used when found.
+    ``optimal`` is False.  With ``compact`` (the default), a formula with fewer
+    summations than the plain path's is looked for and used when found: with
+    the full budget up to :data:`~recouple.recoupling.compact.COMPACT_MAX_LEAVES`
+    leaves, a short search up to ``COMPACT_BOUND_MAX_LEAVES`` (24), which mostly
+    proves a lower bound on sums (``sums_lower_bound``).
 
     >>> d = derive("((a,b)e,c)J", "(a,(b,c)f)J")
     >>> d.steps, [m.kind for m in d.moves]
@@ -170,10 +178,17 @@ def derive(
     sums_bound = 0
     if formula.sums and not compact:
         status = "not searched"
-    elif formula.sums and len(leaves) > COMPACT_MAX_LEAVES:
-        status = f"not searched (more than {COMPACT_MAX_LEAVES} leaves)"
+    elif formula.sums and len(leaves) > COMPACT_BOUND_MAX_LEAVES:
+        status = f"not searched (more than {COMPACT_BOUND_MAX_LEAVES} leaves)"
     elif formula.sums:
-        found = compact_path(a_masks, b_masks, len(leaves), below_sums=plain_sums)
+        budget = (
+            COMPACT_MAX_EXPANSIONS
+            if len(leaves) <= COMPACT_MAX_LEAVES
+            else COMPACT_SHORT_EXPANSIONS
+        )
+        found = compact_path(
+            a_masks, b_masks, len(leaves), below_sums=plain_sums, max_expansions=budget
+        )
         status = "proven: no form with fewer sums" if found.optimal else "search out of budget"
         sums_bound = found.sums_bound
         if found.found:
