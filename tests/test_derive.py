@@ -244,3 +244,25 @@ def test_value_not_a_half_integer() -> None:
     f = derive("((a,b)e,c)J", "(a,(b,c)f)J").formula
     with pytest.raises(BadValue, match="'a'"):
         evaluate(f, {"a": "1/3", "b": 1, "c": 1, "e": 1, "f": 1, "J": 1})
+
+
+def test_budgets_pass_through_and_none_lifts_a_limit(monkeypatch: pytest.MonkeyPatch) -> None:
+    # derive() hands its budgets to the search unchanged: omitted means the search's
+    # defaults, None means no limit (docs/limits.md); a regression test for a
+    # derive() that once turned None into the default.
+    from recouple.recoupling import derive as derive_module
+    from recouple.recoupling.search import DEFAULT
+
+    seen: list[tuple[object, object]] = []
+    real = derive_module.shortest_path
+
+    def spy(*args: object, **kwargs: object) -> object:
+        seen.append((kwargs["max_expansions"], kwargs["max_seconds"]))
+        return real(*args, **kwargs)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(derive_module, "shortest_path", spy)
+    three = ("((a,b)e,c)J", "(a,(b,c)f)J")
+    derive_module.derive(*three)
+    derive_module.derive(*three, max_expansions=None, max_seconds=None)
+    derive_module.derive(*three, max_expansions=7, max_seconds=0.5)
+    assert seen == [(DEFAULT, DEFAULT), (None, None), (7, 0.5)]

@@ -293,8 +293,8 @@ if __name__ == "__main__":
     for n, seeds, budget in (
         (12, range(5), {}),
         (16, range(5), {}),
-        (12, range(1), {"max_seconds": None}),
-        (16, range(1), {"max_seconds": None}),
+        (12, range(1), {"max_seconds": None, "max_expansions": 50}),
+        (16, range(1), {"max_seconds": None, "max_expansions": 50}),
     ):
         for seed, expanded, optimal, peak, seconds in measure_search_memory(n, seeds, **budget):
             print(

@@ -24,7 +24,7 @@ from recouple.recoupling.compact import (
 )
 from recouple.recoupling.formula import Formula, simplify
 from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
-from recouple.recoupling.search import SearchResult, shortest_path
+from recouple.recoupling.search import DEFAULT, SearchResult, _Default, shortest_path
 from recouple.schemes.notation import parse
 from recouple.schemes.tree import Coupling, Leaf, Node, check_scheme
 
@@ -132,17 +132,18 @@ def derive(
     source: Coupling | str,
     target: Coupling | str,
     *,
-    max_expansions: int | None = None,
-    max_seconds: float | None = None,
+    max_expansions: int | None | _Default = DEFAULT,
+    max_seconds: float | None | _Default = DEFAULT,
     compact: bool = True,
 ) -> Derivation:
     """Find the cheapest path of moves from ``source`` to ``target`` and its formula.
 
     The formula is for the overlap ``<source|target>``; both schemes may be given
     as text.  ``max_expansions`` and ``max_seconds`` bound the exact search (the
-    defaults are the search's own); past them a heuristic path is used and
-    ``optimal`` is False.  With ``compact`` (the default), a formula with fewer
-    summations than the plain path's is looked for and used when found: with
+    defaults are the search's own: 20 000 states and 5 s; ``None`` lifts a limit);
+    past them a heuristic path is used and ``optimal`` is False.  With
+    ``compact`` (the default), a formula with fewer summations than the plain
+    path's is looked for and used when found: with
     the full budget up to :data:`~recouple.recoupling.compact.COMPACT_MAX_LEAVES`
     leaves, a short search up to ``COMPACT_BOUND_MAX_LEAVES`` (24), which mostly
     proves a lower bound on sums (``sums_lower_bound``).
@@ -164,12 +165,9 @@ def derive(
     b_named = {mask(c): label for c, label in b.clusters().items()}
     b_masks = frozenset(m for m in b_named if m != full)
     _check_budget(max_expansions, max_seconds)
-    options: dict[str, float] = {}
-    if max_expansions is not None:
-        options["max_expansions"] = max_expansions
-    if max_seconds is not None:
-        options["max_seconds"] = max_seconds
-    result = shortest_path(a_masks, b_masks, len(leaves), **options)  # type: ignore[arg-type]
+    result = shortest_path(
+        a_masks, b_masks, len(leaves), max_expansions=max_expansions, max_seconds=max_seconds
+    )
 
     walk = _Walk(a, b, bit, b_named, result.path)
     formula = simplify(walk.formula())
@@ -224,17 +222,25 @@ def _check_budget(max_expansions: object, max_seconds: object) -> None:
     """Refuse budgets that would silently mean something else (a negative count, NaN)."""
     import math
 
-    if max_expansions is not None and (
-        isinstance(max_expansions, bool)
-        or not isinstance(max_expansions, int)
-        or max_expansions < 0
+    if (
+        max_expansions is not None
+        and not isinstance(max_expansions, _Default)
+        and (
+            isinstance(max_expansions, bool)
+            or not isinstance(max_expansions, int)
+            or max_expansions < 0
+        )
     ):
         raise BadValue(f"max_expansions must be a whole number >= 0, got {max_expansions!r}")
-    if max_seconds is not None and (
-        isinstance(max_seconds, bool)
-        or not isinstance(max_seconds, int | float)
-        or not math.isfinite(max_seconds)
-        or max_seconds < 0
+    if (
+        max_seconds is not None
+        and not isinstance(max_seconds, _Default)
+        and (
+            isinstance(max_seconds, bool)
+            or not isinstance(max_seconds, int | float)
+            or not math.isfinite(max_seconds)
+            or max_seconds < 0
+        )
     ):
         raise BadValue(f"max_seconds must be a finite number >= 0, got {max_seconds!r}")
 
