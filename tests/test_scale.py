@@ -294,7 +294,7 @@ if __name__ == "__main__":
         (12, range(5), {}),
         (16, range(5), {}),
         (12, range(1), {"max_seconds": None, "max_expansions": 50}),
-        (16, range(1), {"max_seconds": None, "max_expansions": 50}),
+        (16, range(1), {"max_seconds": None, "max_expansions": 10}),
     ):
         for seed, expanded, optimal, peak, seconds in measure_search_memory(n, seeds, **budget):
             print(

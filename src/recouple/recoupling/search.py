@@ -558,7 +558,11 @@ def _needs_fit(problem: _Needs, v: int, left: list[int] | None = None) -> bool |
     loose = _needs_search(problem, v, left, False)
     if not loose:
         return loose
-    return _needs_search(problem, v, left, True)
+    # the instance count refutes more but costs more: a smaller share of the budget
+    share = [min(left[0], _COUNT_BUDGET)]
+    found = _needs_search(problem, v, share, True)
+    left[0] -= min(left[0], _COUNT_BUDGET) - share[0]
+    return found
 
 
 def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool | None:
@@ -593,7 +597,7 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
         best_fit: list[tuple[int, int]] | None = None
         best_t = 0
         dead = skips  # clusters with no option that fits must be skipped
-        costly: list[dict[int, int]] = []  # per cluster with no free option: its shares
+        costly: list[list[tuple[int, int]]] = []  # options of clusters with no free one
         r = rest
         while r:
             b = r & -r
@@ -612,19 +616,11 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
                 continue
             if best_fit is None or len(fit) < len(best_fit):
                 best_fit, best_t = fit, b
-            shares: dict[int, int] = {}  # new cluster -> best share of this t (see below)
             for _, more in fit:
                 if more == need:
                     break
-                extra = more & ~need
-                share = _SHARE[extra.bit_count()]
-                while extra:
-                    w = extra & -extra
-                    extra ^= w
-                    if shares.get(w, 0) < share:
-                        shares[w] = share
             else:
-                costly.append(shares)
+                costly.append(fit)
         if best_fit is None:  # every remaining cluster skipped, within the allowance
             return complete(used, need, matched)
         if len(costly) > v - dead:
@@ -634,8 +630,17 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
             # most the sum over costly clusters of their best 1/m through w, so the
             # number matched is at most the sum of the largest `room` such capacities.
             capacity: dict[int, int] = {}
-            for offered in costly:
-                for w, share in offered.items():
+            for fit in costly:
+                shares: dict[int, int] = {}  # new cluster -> best share of this cluster
+                for _, more in fit:
+                    extra = more & ~need
+                    share = _SHARE[extra.bit_count()]
+                    while extra:
+                        w = extra & -extra
+                        extra ^= w
+                        if shares.get(w, 0) < share:
+                            shares[w] = share
+                for w, share in shares.items():
                     capacity[w] = capacity.get(w, 0) + share
             room = v - need.bit_count()
             served = sum(sorted(capacity.values(), reverse=True)[:room])
@@ -716,6 +721,8 @@ _SHARE = (0, 12, 6, 4, 3)
 # Work of _needs_floor per bound (target clusters looked at, summed over branches)
 # before it settles for the order bound's floor: about 10 000 branches at 12 leaves.
 _NEEDS_BUDGET = 100_000
+# Of which the instance count of _needs_fit may use at most this much per test.
+_COUNT_BUDGET = 15_000
 
 
 # ---------------------------------------------------------------------------
