@@ -1119,16 +1119,14 @@ def _cut_cycles(trees: list[frozenset[int]]) -> list[frozenset[int]]:
 
 
 def _heuristic(source: frozenset[int], target: frozenset[int], n: int) -> list[frozenset[int]]:
-    """Best of a few greedy constructions, then local improvement (small n only).
+    """Best of a few greedy constructions, then local improvement (up to 40 leaves).
 
-    Up to :data:`EXACT_MAX_LEAVES` leaves the construction also runs from the target
-    back to the source (moves are reversible), and the shorter path (then the one of
-    fewer sums) is kept: the two directions often differ by several moves.  A fixed
+    The construction also runs from the target back to the source (moves are
+    reversible), and the shorter path (then the one of fewer sums) is kept: the two
+    directions often differ by several moves (by 10-25 % at 30 leaves).  A fixed
     amount of work, not a time budget: the same pair always gets the same path.
     """
     forward = _one_way(source, target, n)
-    if n > EXACT_MAX_LEAVES:
-        return forward
     backward = list(reversed(_one_way(target, source, n)))
 
     def cost(path: list[frozenset[int]]) -> tuple[int, int]:
@@ -1147,9 +1145,14 @@ def _one_way(source: frozenset[int], target: frozenset[int], n: int) -> list[fro
             best = moves
     assert best is not None
     trees = _trees_of(source, best)
-    if n <= EXACT_MAX_LEAVES:
+    if n <= _SHORTEN_MAX_LEAVES:
         trees = _shorten(trees, n)
     return trees
+
+
+# Local improvement runs up to this many leaves: it costs about 0.5 s a direction at 40
+# leaves for a few per cent, 4 s at 100 leaves for 3 %.
+_SHORTEN_MAX_LEAVES = 40
 
 
 def shortest_path(
