@@ -218,9 +218,8 @@ def test_fewest_sums_and_its_bound_against_dijkstra(n: int) -> None:
     # The compact search's sums (A* with the bound of couplings still owed) equal an
     # independent Dijkstra over all trees, and a starved search's bound never exceeds it.
     rng = random.Random(500 + n)
-    masks = [1 << i for i in range(n)]
     for _ in range(25):
-        source, target = _random_masks(masks, rng), _random_masks(masks, rng)
+        source, target = _random_masks(n, rng), _random_masks(n, rng)
         want = _fewest_sums_reference(source, target, n)
         full = compact_path(source, target, n, max_expansions=10**6)
         assert full.found
@@ -233,17 +232,16 @@ def test_fewest_sums_and_its_bound_against_dijkstra(n: int) -> None:
                 assert starved.cost[0] == want
 
 
-def _random_masks(masks: list[int], rng: random.Random) -> frozenset[int]:
-    """A random tree as its non-root cluster bitmasks (random merges; common practice)."""
-    pool = list(masks)
-    clusters = set()
-    while len(pool) > 1:
-        a, b = rng.sample(pool, 2)
-        pool.remove(a)
-        pool.remove(b)
-        pool.append(a | b)
-        clusters.add(a | b)
-    return frozenset(clusters - {pool[0]})
+def _random_masks(n: int, rng: random.Random) -> frozenset[int]:
+    """A random tree of the test helpers, as its non-root cluster bitmasks."""
+    leaves = [f"j{i}" for i in range(n)]
+    tree = random_tree(leaves, rng)
+    full = frozenset(leaves)
+    return frozenset(
+        sum(1 << int(leaf[1:]) for leaf in cluster)
+        for cluster in tree.clusters()
+        if cluster != full
+    )
 
 
 def test_compact_search_settles_eight_leaf_pairs() -> None:

@@ -245,27 +245,6 @@ def _crosses(a: int, b: int) -> bool:
     return bool(a & b and a & ~b and b & ~a)
 
 
-def _max_matching(left: list[int], right: list[int]) -> int:
-    """Maximum matching between clusters of ``left`` and ``right`` that cross."""
-    adj = [[j for j, b in enumerate(right) if _crosses(a, b)] for a in left]
-    match_r = [-1] * len(right)
-
-    def augment(i: int, seen: list[bool]) -> bool:
-        for j in adj[i]:
-            if not seen[j]:
-                seen[j] = True
-                if match_r[j] < 0 or augment(match_r[j], seen):
-                    match_r[j] = i
-                    return True
-        return False
-
-    size = 0
-    for i in range(len(left)):
-        if augment(i, [False] * len(right)):
-            size += 1
-    return size
-
-
 def lower_bound(source: frozenset[int], target: frozenset[int], n: int) -> int:
     """An admissible lower bound on the number of Racah moves from source to target.
 
