@@ -266,3 +266,32 @@ def test_budgets_pass_through_and_none_lifts_a_limit(monkeypatch: pytest.MonkeyP
     derive_module.derive(*three, max_expansions=None, max_seconds=None)
     derive_module.derive(*three, max_expansions=7, max_seconds=0.5)
     assert seen == [(DEFAULT, DEFAULT), (None, None), (7, 0.5)]
+
+
+def test_the_time_budget_covers_the_search_for_fewer_sums(monkeypatch: pytest.MonkeyPatch) -> None:
+    # max_seconds bounds the whole derivation (docs/limits.md): the fewer-sums search
+    # gets what the path search left, never more than its own safety net; None lifts it.
+    import math
+
+    from recouple.recoupling import derive as derive_module
+    from recouple.recoupling.compact import COMPACT_MAX_SECONDS
+
+    seen: list[float] = []
+    real = derive_module.compact_path
+
+    def spy(*args: object, **kwargs: object) -> object:
+        seen.append(kwargs["max_seconds"])  # type: ignore[arg-type]
+        return real(*args, **kwargs)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(derive_module, "compact_path", spy)
+    # a 5-leaf pair whose shortest path leaves a sum, so the fewer-sums search runs
+    pair = ("(((a,b)e,c)f,(d,g)h)J", "((a,(c,g)p)q,(b,d)r)J")
+    derive_module.derive(*pair, max_seconds=0.75)
+    derive_module.derive(*pair)
+    derive_module.derive(*pair, max_seconds=None)
+    derive_module.derive(*pair, max_seconds=0)
+    assert len(seen) == 4, "the pair must leave a sum on the plain path"
+    assert 0 < seen[0] <= 0.75
+    assert 0 < seen[1] <= COMPACT_MAX_SECONDS
+    assert seen[2] == math.inf
+    assert seen[3] == 0.0

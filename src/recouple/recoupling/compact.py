@@ -41,6 +41,7 @@ __all__ = [
     "COMPACT_BOUND_MAX_LEAVES",
     "COMPACT_MAX_EXPANSIONS",
     "COMPACT_MAX_LEAVES",
+    "COMPACT_MAX_SECONDS",
     "COMPACT_SHORT_EXPANSIONS",
     "CompactResult",
     "compact_path",
@@ -59,6 +60,9 @@ COMPACT_SHORT_EXPANSIONS = 500
 #: The budget is a count, so results do not depend on machine load; the time limit
 #: (``max_seconds``) is only a safety net.
 COMPACT_MAX_EXPANSIONS = 5_000
+#: Default time limit of the compact search, in seconds (a safety net; derive() gives
+#: it the time left of its own budget when that is less).
+COMPACT_MAX_SECONDS = 5.0
 
 Tree = frozenset[int]
 
@@ -119,7 +123,7 @@ def compact_path(
     n: int,
     *,
     max_expansions: int = COMPACT_MAX_EXPANSIONS,
-    max_seconds: float = 5.0,
+    max_seconds: float = COMPACT_MAX_SECONDS,
     below_sums: int | None = None,
 ) -> CompactResult:
     """The cheapest path by (sums, symbols, Racah moves).

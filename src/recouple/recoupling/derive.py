@@ -10,7 +10,9 @@ moves with their coefficients (this module) -> simplified :class:`Formula`.
 
 from __future__ import annotations
 
+import math
 import re
+import time
 from collections import Counter
 from dataclasses import dataclass
 
@@ -19,12 +21,19 @@ from recouple.recoupling.compact import (
     COMPACT_BOUND_MAX_LEAVES,
     COMPACT_MAX_EXPANSIONS,
     COMPACT_MAX_LEAVES,
+    COMPACT_MAX_SECONDS,
     COMPACT_SHORT_EXPANSIONS,
     compact_path,
 )
 from recouple.recoupling.formula import Formula, simplify
 from recouple.recoupling.moves import Move, exchange_at, ninej_at, racah_at
-from recouple.recoupling.search import DEFAULT, SearchResult, _Default, shortest_path
+from recouple.recoupling.search import (
+    DEFAULT,
+    DEFAULT_MAX_SECONDS,
+    SearchResult,
+    _Default,
+    shortest_path,
+)
 from recouple.schemes.notation import parse
 from recouple.schemes.tree import Coupling, Leaf, Node, check_scheme
 
@@ -141,7 +150,9 @@ def derive(
     The formula is for the overlap ``<source|target>``; both schemes may be given
     as text.  ``max_expansions`` and ``max_seconds`` bound the exact search (the
     defaults are the search's own: 20 000 states and 5 s; ``None`` lifts a limit);
-    past them a heuristic path is used and ``optimal`` is False.  With
+    past them a heuristic path is used and ``optimal`` is False.  ``max_seconds``
+    covers the search for fewer sums too: it gets the time the path search left
+    (at most its own 5 s safety net).  With
     ``compact`` (the default), a formula with fewer summations than the plain
     path's is looked for and used when found: with
     the full budget up to :data:`~recouple.recoupling.compact.COMPACT_MAX_LEAVES`
@@ -165,6 +176,7 @@ def derive(
     b_named = {mask(c): label for c, label in b.clusters().items()}
     b_masks = frozenset(m for m in b_named if m != full)
     _check_budget(max_expansions, max_seconds)
+    started = time.monotonic()
     result = shortest_path(
         a_masks, b_masks, len(leaves), max_expansions=max_expansions, max_seconds=max_seconds
     )
@@ -185,7 +197,12 @@ def derive(
             else COMPACT_SHORT_EXPANSIONS
         )
         found = compact_path(
-            a_masks, b_masks, len(leaves), below_sums=plain_sums, max_expansions=budget
+            a_masks,
+            b_masks,
+            len(leaves),
+            below_sums=plain_sums,
+            max_expansions=budget,
+            max_seconds=_time_left(max_seconds, started),
         )
         status = "proven: no form with fewer sums" if found.optimal else "search out of budget"
         sums_bound = found.sums_bound
@@ -218,10 +235,18 @@ def _size(formula: Formula) -> tuple[int, int]:
     return len(formula.sums), len(formula.sixjs) + len(formula.ninejs)
 
 
+def _time_left(max_seconds: float | None | _Default, started: float) -> float:
+    """Seconds the search for fewer sums may take: what the caller's budget has left
+    (the whole derivation is bounded, not only the path search), at most the
+    compact search's own safety net."""
+    if max_seconds is None:
+        return math.inf
+    budget = DEFAULT_MAX_SECONDS if isinstance(max_seconds, _Default) else max_seconds
+    return min(COMPACT_MAX_SECONDS, max(budget - (time.monotonic() - started), 0.0))
+
+
 def _check_budget(max_expansions: object, max_seconds: object) -> None:
     """Refuse budgets that would silently mean something else (a negative count, NaN)."""
-    import math
-
     if (
         max_expansions is not None
         and not isinstance(max_expansions, _Default)

@@ -524,27 +524,31 @@ def _needs_options(gone: list[int], new: list[int], known: frozenset[int], n: in
     return _Needs(options, list(ids), gone, new, known, root)
 
 
-def _needs_fit(problem: _Needs, v: int, left: list[int] | None = None) -> bool | None:
+def _needs_fit(
+    problem: _Needs, v: int, left: list[int] | None = None, deadline: float | None = None
+) -> bool | None:
     """Whether ``k <= v`` is possible: some matching leaves at most ``v`` target
     clusters unmatched, needs at most ``v`` clusters, and passes
     :func:`_extra_instances`; None when out of budget (``left[0]`` units of work,
-    :data:`_NEEDS_BUDGET` if not given).
+    :data:`_NEEDS_BUDGET` if not given, or past the ``time.monotonic()`` ``deadline``).
 
     The test without the instance count runs first: it prunes harder and often
     settles the question alone."""
     if left is None:
         left = [_NEEDS_BUDGET]
-    loose = _needs_search(problem, v, left, False)
+    loose = _needs_search(problem, v, left, False, deadline)
     if not loose:
         return loose
     # the instance count refutes more but costs more: a smaller share of the budget
     share = [min(left[0], _COUNT_BUDGET)]
-    found = _needs_search(problem, v, share, True)
+    found = _needs_search(problem, v, share, True, deadline)
     left[0] -= min(left[0], _COUNT_BUDGET) - share[0]
     return found
 
 
-def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool | None:
+def _needs_search(
+    problem: _Needs, v: int, left: list[int], count: bool, deadline: float | None = None
+) -> bool | None:
     """The branch and bound of :func:`_needs_fit`; ``count``: apply
     :func:`_extra_instances` to each complete matching."""
     options = problem.options
@@ -571,8 +575,8 @@ def _needs_search(problem: _Needs, v: int, left: list[int], count: bool) -> bool
         if key in failed:
             return False
         left[0] -= rest.bit_count()  # the work of one branch grows with what is left
-        if left[0] < 0:
-            return None
+        if left[0] < 0 or (deadline is not None and time.monotonic() > deadline):
+            return None  # one test can take a second at 16 leaves: keep to the clock
         best_fit: list[tuple[int, int]] | None = None
         best_t = 0
         dead = skips  # clusters with no option that fits must be skipped
@@ -816,7 +820,8 @@ def _astar(
         if (
             lo <= need
             and need - a < a
-            and _needs_fit(_needs_options(gone, new, known | have, n), need - a) is False
+            and _needs_fit(_needs_options(gone, new, known | have, n), need - a, None, deadline)
+            is False
         ):
             lo = need + 1
         if lo <= need:
