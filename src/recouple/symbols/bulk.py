@@ -11,9 +11,9 @@ each entry carries a proven error bound, and an entry whose bound is not below
 the tolerance is recomputed from the exact integer sums of
 :mod:`recouple.symbols.floats` (one rounding).  So nontrivial zeros come out as
 ``0.0`` and the answer is never worse than 1e-12, at any j up to ``MAX_SPIN``;
-only the speed depends on how many entries need the exact path (few up to
-j ~ 100, most at j of several hundred, where the alternating sums cancel to
-dozens of digits).
+only the speed depends on how many entries need the exact path (in random
+samples: only exact zeros up to 2j = 200; every 6j at 2j ~ 400 and beyond, where
+the alternating sums cancel more than double-double can vouch for).
 
 Method (6j, DLMF 34.4.2).  Racah's sum is taken relative to its first term:
 ``{...} = (-1)^smin * sqrt(prod Delta^2) * t(smin) * sum_k rho_k`` with
