@@ -475,6 +475,15 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
     root, known or in ``N(M)``, so both assignments must exist with the four sets of
     each of their moves among those: else ``E >= 1``.  So ``k >= |N(M)| + E``, which
     is at least ``max(a - |M|, |N(M)|)`` (see :func:`_extra_instances`).
+
+    Only matchings whose pairs can happen in some order count.  When the pair
+    ``(s, t)`` fires, ``t`` (just after), ``X``, ``Y``, ``Z`` and ``P`` are present,
+    so no cluster crossing one of them is (a tree's clusters never cross); a cluster
+    ``c`` of ``gone`` other than ``s`` crossing one of them has therefore had its first
+    removal already.  If ``c`` is in a pair of ``M`` too, that pair's move (the first
+    removal of ``c``) comes first.  A cycle of such "comes first" relations is
+    impossible, so ``M`` of every path is free of them (own argument; the brute force
+    of tests/test_search.py states it independently).
     """
     a = len(gone)
     if a == 0:
@@ -495,9 +504,12 @@ def _needs_floor(gone: list[int], new: list[int], known: frozenset[int], n: int,
 class _Needs(NamedTuple):
     """One needs problem (see :func:`_needs_floor`).  ``options[j]`` lists, for the
     target cluster ``new[j]``, its crossing clusters to remove (bits of ``gone``) with
-    the bitmask of the clusters that pair needs (bits of ``needed``)."""
+    the bitmask of the clusters that pair needs (bits of ``needed``); ``before[j]``
+    maps each such removal bit to the clusters of ``gone`` (bits) that must be
+    removed before that pair's move."""
 
     options: list[list[tuple[int, int]]]
+    before: list[dict[int, int]]
     needed: list[int]
     gone: list[int]
     new: list[int]
@@ -510,18 +522,32 @@ def _needs_options(gone: list[int], new: list[int], known: frozenset[int], n: in
     root = (1 << n) - 1
     ids: dict[int, int] = {}
     options: list[list[tuple[int, int]]] = []
+    before: list[dict[int, int]] = []
     for t in new:
         opts = []
+        first: dict[int, int] = {}
         for i, s in enumerate(gone):
             if s & t and s & ~t and t & ~s:
                 need = 0
+                here = [t]  # present at the move (besides leaves and the root)
                 for w in (s & t, s & ~t, t & ~s, s | t):
-                    if w & (w - 1) and w != root and w not in known:
-                        need |= 1 << ids.setdefault(w, len(ids))
+                    if w & (w - 1) and w != root:
+                        here.append(w)
+                        if w not in known:
+                            need |= 1 << ids.setdefault(w, len(ids))
                 opts.append((1 << i, need))
+                early = 0
+                for c, g in enumerate(gone):
+                    if c != i:
+                        for w in here:
+                            if g & w and g & ~w and w & ~g:
+                                early |= 1 << c
+                                break
+                first[1 << i] = early
         opts.sort(key=lambda o: o[1].bit_count())
         options.append(opts)
-    return _Needs(options, list(ids), gone, new, known, root)
+        before.append(first)
+    return _Needs(options, before, list(ids), gone, new, known, root)
 
 
 def _needs_fit(
@@ -552,8 +578,28 @@ def _needs_search(
     """The branch and bound of :func:`_needs_fit`; ``count``: apply
     :func:`_extra_instances` to each complete matching."""
     options = problem.options
-    failed: set[tuple[int, int, int, int]] = set()
+    before = problem.before
+    failed: set[tuple[int, int, int]] = set()
     a = len(problem.gone)
+    chosen: dict[int, int] = {}  # removal bit of each pair so far -> its `before` mask
+
+    def in_order(bit: int, early: int, used: int) -> bool:
+        """Whether the pair (removal ``bit``, removals ``early`` before it) keeps the
+        pairs chosen so far free of a cycle of "removed before"."""
+        preds = early & used
+        if not preds:
+            return True
+        # from the chosen pairs that must come after this one, follow "after" edges
+        todo = [q for q, e in chosen.items() if e & bit]
+        seen = 0
+        while todo:
+            q = todo.pop()
+            if q & preds:
+                return False
+            if not seen & q:
+                seen |= q
+                todo.extend(r for r, e in chosen.items() if e & q and not seen & r)
+        return True
 
     def complete(used: int, need: int, matched: int) -> bool | None:
         """Whether a complete matching passes (``k <= v`` with its ``E``)."""
@@ -566,12 +612,14 @@ def _needs_search(
             return None
         return _extra_instances(problem, used, matched, need) <= room
 
-    def fits(rest: int, used: int, skips: int, need: int, matched: int) -> bool | None:
+    def fits(rest: int, used: int, skips: int, need: int, matched: int, pairs: int) -> bool | None:
         """Whether the target clusters in ``rest`` can be matched with at most
-        ``v - skips`` more skipped; branches on the one with the fewest options that fit."""
+        ``v - skips`` more skipped; branches on the one with the fewest options that fit.
+        ``pairs`` encodes the pairs so far (which removal each target took): the order
+        test depends on them, not only on ``used`` and ``matched``."""
         if not rest:
             return complete(used, need, matched)
-        key = (rest, used, need, matched)
+        key = (rest, need, pairs)
         if key in failed:
             return False
         left[0] -= rest.bit_count()  # the work of one branch grows with what is left
@@ -630,18 +678,32 @@ def _needs_search(
             if (len(costly) - (v - dead)) * _SHARE[1] > served:
                 failed.add(key)
                 return False
+        j = best_t.bit_length() - 1
+        first = before[j]
         for bit, more in best_fit:
-            found = fits(rest ^ best_t, used | bit, dead, more, matched | best_t)
+            early = first[bit]
+            if not in_order(bit, early, used):
+                continue  # the pairs would have to happen before each other
+            chosen[bit] = early
+            found = fits(
+                rest ^ best_t,
+                used | bit,
+                dead,
+                more,
+                matched | best_t,
+                pairs | (j + 1) << (_PAIR_BITS * (bit.bit_length() - 1)),
+            )
+            del chosen[bit]
             if found is not False:
                 return found
         if dead < v:
-            found = fits(rest ^ best_t, used, dead + 1, need, matched)
+            found = fits(rest ^ best_t, used, dead + 1, need, matched, pairs)
             if found is not False:
                 return found
         failed.add(key)
         return False
 
-    return fits((1 << len(options)) - 1, 0, 0, 0, 0)
+    return fits((1 << len(options)) - 1, 0, 0, 0, 0, 0)
 
 
 def _extra_instances(problem: _Needs, used: int, matched: int, need: int) -> int:
@@ -697,6 +759,9 @@ def _assign(left: list[int], right: list[int], ok: Callable[[int, int], bool]) -
 
     return sum(1 for i in range(len(left)) if augment(i, set()))
 
+
+# Bits per removal in the pairing key of _needs_search (target index + 1 < 32).
+_PAIR_BITS = 5
 
 # 1/m in units of 1/12 (an option adds at most 4 clusters), for exact integer sums.
 _SHARE = (0, 12, 6, 4, 3)
