@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import subprocess
+import sys
 from fractions import Fraction
 
 import pytest
@@ -119,3 +121,70 @@ def test_projections() -> None:
     assert list(projections(0)) == [0]
     assert list(projections(3)) == [-3, -1, 1, 3]
     assert len(projections(10)) == 11
+
+
+@pytest.mark.parametrize(
+    ("value", "expected"),
+    [
+        ("5e-1", Fraction(1, 2)),
+        ("1.5E0", Fraction(3, 2)),
+        ("1e3", Fraction(1000)),
+        ("0.05e+1", Fraction(1, 2)),
+    ],
+)
+def test_exponent_form_is_read_exactly(value: str, expected: Fraction) -> None:
+    got = parse_spin(value)
+    assert got == expected
+    assert type(got) is Fraction
+
+
+# Far-out exponents: before the fix Fraction built 10**99999999999 digit by digit and
+# never returned, so they run in a child process that a regression cannot hang.
+_FAR_EXPONENTS = """
+from recouple.errors import BadValue
+from recouple.numbers.spins import parse_projection, parse_spin
+print(parse_spin("0e99999999999"))
+for parse, value in [
+    (parse_spin, "1e99999999999"),
+    (parse_spin, "-1e99999999999"),
+    (parse_spin, "1e-99999999999"),
+    (parse_projection, "-1e99999999999"),
+    (parse_projection, "1e-99999999999"),
+]:
+    try:
+        parse(value, name="j")
+    except BadValue as err:
+        print(err.one_line())
+"""
+
+
+def test_exponent_far_out_of_range_is_refused() -> None:
+    done = subprocess.run(
+        [sys.executable, "-c", _FAR_EXPONENTS],
+        capture_output=True,
+        text=True,
+        timeout=60,
+        check=True,
+    )
+    assert done.stdout.splitlines() == [
+        "0",
+        "value of 'j' is '1e99999999999', above the limit MAX_SPIN = 1000",
+        "value of 'j' must be a non-negative integer or half-integer, got '-1e99999999999'",
+        "value of 'j' must be a non-negative integer or half-integer, got '1e-99999999999'",
+        "value of 'j' is '-1e99999999999', beyond the limit MAX_SPIN = 1000",
+        "value of 'j' must be an integer or half-integer, got '1e-99999999999'",
+    ]
+
+
+@pytest.mark.parametrize(
+    "value",
+    [10**5000, -(10**5000), Fraction(10**5000, 3), Fraction(1, 10**5000)],
+    ids=["int", "negative int", "big Fraction", "tiny Fraction"],
+)
+def test_number_with_thousands_of_digits_gets_a_short_message(value: object) -> None:
+    # repr() of such an int raises ValueError (sys.get_int_max_str_digits), which used
+    # to escape instead of the BadValue
+    for parse in (parse_spin, parse_projection):
+        with pytest.raises(BadValue, match="a number with thousands of digits") as info:
+            parse(value, name="j")
+        assert len(info.value.one_line()) < 120

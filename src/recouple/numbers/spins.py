@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import math
 import numbers
+from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 
 from recouple.errors import BadValue
@@ -45,6 +46,25 @@ def _where(name: str | None, what: str) -> str:
 
 _NUMERAL = frozenset("0123456789+-./eE")
 
+# A value written with an exponent whose size is beyond this (|x| >= 10^7 or
+# 0 < |x| < 10^-6) is out of every range here, whatever its digits.
+_EXPONENT_REACH = 6
+
+
+def _shown(value: object) -> str:
+    """``value`` as a message shows it: its repr, cut to about 40 characters.
+
+    Never fails: the repr of an int with thousands of digits is refused by Python
+    (``sys.get_int_max_str_digits``), so such a value is described instead.
+    """
+    if isinstance(value, str):
+        return repr(value) if len(value) <= 40 else repr(value[:37] + "...")
+    try:
+        text = repr(value)
+    except ValueError:
+        return "a number with thousands of digits"
+    return text if len(text) <= 40 else text[:37] + "..."
+
 
 def _to_fraction(value: object, *, name: str | None, what: str, rule: str) -> Fraction:
     """Read ``value`` as an exact number, refusing anything that is not one."""
@@ -59,19 +79,44 @@ def _to_fraction(value: object, *, name: str | None, what: str, rule: str) -> Fr
         return Fraction(value)
     if isinstance(value, str):
         text = value.strip()
-        shown = repr(value) if len(value) <= 40 else repr(value[:37] + "...")
+        shown = _shown(value)
         # Only plain ASCII numerals: Fraction would also read "1_0" or other scripts' digits.
         if not text or any(ch not in _NUMERAL for ch in text):
             raise BadValue(f"{where} must be {rule}, got {shown}")
         digits = text.lstrip("+").lstrip("0")
         if digits.isdigit() and len(digits) > 6:  # also beyond Python's int-from-text limit
             raise BadValue(f"{where} is {shown}, above the limit MAX_SPIN = {MAX_SPIN}")
+        if "e" in text or "E" in text:
+            return _exponent_form(text, where=where, rule=rule, shown=shown)
         try:
             out = Fraction(text)
         except (ValueError, ZeroDivisionError):
             raise BadValue(f"{where} must be {rule}, got {shown}") from None
         return out
-    raise BadValue(f"{where} must be {rule} (a number or text such as '3/2'), got {value!r}")
+    raise BadValue(f"{where} must be {rule} (a number or text such as '3/2'), got {_shown(value)}")
+
+
+def _exponent_form(text: str, *, where: str, rule: str, shown: str) -> Fraction:
+    """Text such as ``5e-1`` or ``1e400`` as an exact number, in bounded time.
+
+    ``Fraction("1e99999999999")`` builds 10**99999999999 in full and never
+    returns; ``Decimal`` keeps the exponent apart, so its size is looked at
+    first.  A value far out of range becomes a stand-in of the same sign that
+    is out of range too (10^7 or 10^-7), so the callers' own checks word the
+    message as they do for any other value.
+    """
+    try:
+        dec = Decimal(text)
+    except InvalidOperation:
+        raise BadValue(f"{where} must be {rule}, got {shown}") from None
+    if dec.is_zero():
+        return Fraction(0)
+    sign = -1 if dec.is_signed() else 1
+    if dec.adjusted() > _EXPONENT_REACH:
+        return Fraction(sign * 10 ** (_EXPONENT_REACH + 1))
+    if dec.adjusted() < -_EXPONENT_REACH:
+        return Fraction(sign, 10 ** (_EXPONENT_REACH + 1))
+    return Fraction(dec)
 
 
 def parse_spin(value: object, *, name: str | None = None) -> Fraction:
@@ -93,10 +138,10 @@ def parse_spin(value: object, *, name: str | None = None) -> Fraction:
     rule = "a non-negative integer or half-integer"
     out = _to_fraction(value, name=name, what="angular momentum", rule=rule)
     if out < 0 or out.denominator > 2:
-        raise BadValue(f"{_where(name, 'angular momentum')} must be {rule}, got {value!r}")
+        raise BadValue(f"{_where(name, 'angular momentum')} must be {rule}, got {_shown(value)}")
     if out > MAX_SPIN:
         raise BadValue(
-            f"{_where(name, 'angular momentum')} is {value!r}, "
+            f"{_where(name, 'angular momentum')} is {_shown(value)}, "
             f"above the limit MAX_SPIN = {MAX_SPIN}"
         )
     return out
@@ -118,10 +163,11 @@ def parse_projection(value: object, *, name: str | None = None) -> Fraction:
     rule = "an integer or half-integer"
     out = _to_fraction(value, name=name, what="projection", rule=rule)
     if out.denominator > 2:
-        raise BadValue(f"{_where(name, 'projection')} must be {rule}, got {value!r}")
+        raise BadValue(f"{_where(name, 'projection')} must be {rule}, got {_shown(value)}")
     if abs(out) > MAX_SPIN:
         raise BadValue(
-            f"{_where(name, 'projection')} is {value!r}, beyond the limit MAX_SPIN = {MAX_SPIN}"
+            f"{_where(name, 'projection')} is {_shown(value)}, "
+            f"beyond the limit MAX_SPIN = {MAX_SPIN}"
         )
     return out
 
