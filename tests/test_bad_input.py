@@ -743,6 +743,61 @@ def test_bug_progress_line_before_a_notation_error(monkeypatch: pytest.MonkeyPat
     assert err.startswith("recouple: error: unclosed '('")
 
 
+@pytest.mark.parametrize(
+    ("argv", "message"),
+    [
+        (("evaluate", A, B, *sets(with_value("a", "1/3"))), f"value of 'a' {RULE}, got '1/3'"),
+        (("evaluate", A, B, *sets(GOOD), "--set", "z=1"), "'z' is not a label of either"),
+        (("evaluate", A, B, "--set", "a=1/2"), "no value given for 'b'"),
+        (("matrix", A, B, "--set", "a=1/3", "--set", "b=1", "--set", "c=1"), "value of 'a'"),
+        (("matrix", A, B, "--set", "a=1"), "no value given for leaf 'b', 'c'"),
+    ],
+    ids=[
+        "evaluate bad value",
+        "evaluate unknown label",
+        "evaluate missing",
+        "matrix bad value",
+        "matrix missing leaf",
+    ],
+)
+def test_bug_bad_values_fail_before_the_search(
+    monkeypatch: pytest.MonkeyPatch, argv: tuple[str, ...], message: str
+) -> None:
+    # Values were checked only after the derivation: a search of seconds, a progress
+    # line, then the error (two lines on stderr). Now they fail first: the search is
+    # never started and no progress line appears even when the timer fires at once.
+    monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)
+
+    def no_search(*args: object, **kwargs: object) -> None:
+        raise AssertionError("derive() ran before the values were checked")
+
+    monkeypatch.setattr("recouple.recoupling.derive.derive", no_search)
+    monkeypatch.setattr("recouple.recoupling.matrix.derive", no_search)
+    status, out, err = run(*argv)
+    assert (status, out) == (2, "")
+    assert err.count("\n") == 1
+    assert err.startswith(f"recouple: error: {message}")
+
+
+def test_bug_api_values_fail_before_the_search(monkeypatch: pytest.MonkeyPatch) -> None:
+    def no_search(*args: object, **kwargs: object) -> None:
+        raise AssertionError("derive() ran before the values were checked")
+
+    monkeypatch.setattr("recouple.verification.derive", no_search)
+    monkeypatch.setattr("recouple.recoupling.matrix.derive", no_search)
+    with pytest.raises(BadValue, match=re.escape(f"value of 'a' {RULE}, got '1/3'")):
+        recouple.verify(A, B, with_value("a", "1/3"))
+    with pytest.raises(BadValue, match="no value given for leaf 'c'"):
+        recouple.transformation_matrix(A, B, {"a": 1, "b": 1})
+
+
+@pytest.mark.parametrize("values", [None, [("a", 1), ("b", 1), ("c", 1)]], ids=["None", "list"])
+def test_bug_matrix_values_not_a_mapping(values: object) -> None:
+    # None used to escape as TypeError; a list of pairs got "('a', 1) cannot be set"
+    with pytest.raises(BadValue, match="values must map each leaf to its value, got "):
+        recouple.transformation_matrix(A, B, values)  # type: ignore[arg-type]
+
+
 # ---------------------------------------------------------------------------
 # The docs table
 # ---------------------------------------------------------------------------

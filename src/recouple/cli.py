@@ -105,12 +105,17 @@ def _search_options(args: argparse.Namespace) -> dict[str, Any]:
     return options
 
 
-def _derive(args: argparse.Namespace, err: TextIO) -> Any:
+def _derive(args: argparse.Namespace, err: TextIO, values: dict[str, str] | None = None) -> Any:
     from recouple.recoupling.derive import as_scheme, check_pair, derive
+    from recouple.recoupling.evaluate import check_labels
+    from recouple.recoupling.formula import free_labels
 
-    # Read and compare the schemes first, so that bad text fails before any progress line.
+    # Read and compare the schemes, and check the values, first: bad input fails at
+    # once, before a search that may take seconds and before any progress line.
     source, target = as_scheme(args.source), as_scheme(args.target)
     check_pair(source, target)
+    if values is not None:
+        check_labels(free_labels(source, target), values)
     with _progress("searching for the shortest path", err):
         return derive(source, target, **_search_options(args))
 
@@ -224,7 +229,7 @@ def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     from recouple.recoupling.evaluate import check_values, evaluate, why_zero
 
     values = _parse_sets(args.set)
-    d = _derive(args, err)
+    d = _derive(args, err, values)
     f = d.formula
     doubled = check_values(f, values)
     value = evaluate(f, values)
@@ -308,13 +313,17 @@ def _write_file(path: str, write: Callable[[Path], object]) -> Path:
 def _cmd_matrix(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     from recouple.numbers.spins import spin_text
     from recouple.outputs.table import matrix_csv, matrix_json, matrix_text
-    from recouple.recoupling.matrix import transformation_matrix
+    from recouple.recoupling.derive import as_scheme
+    from recouple.recoupling.matrix import matrix_values, transformation_matrix
 
     if args.csv == "-" and args.json:
         raise BadValue("--csv - and --json both write to stdout: give --csv a file name")
     values = _parse_sets(args.set)
+    # Bad input fails at once, before the search and before any progress line.
+    source, target = as_scheme(args.source), as_scheme(args.target)
+    matrix_values(source, target, values)
     with _progress("building the transformation matrix", err):
-        m = transformation_matrix(args.source, args.target, values)
+        m = transformation_matrix(source, target, values)
     if not m.rows:
         total = m.source.total if m.source.total in values else m.target.total
         raise BadValue(

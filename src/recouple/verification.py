@@ -15,8 +15,9 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from recouple.numbers.radicals import Radical
-from recouple.recoupling.derive import Derivation, derive
-from recouple.recoupling.evaluate import check_values, evaluate, why_zero
+from recouple.recoupling.derive import Derivation, as_scheme, check_pair, derive
+from recouple.recoupling.evaluate import check_labels, check_values, evaluate, why_zero
+from recouple.recoupling.formula import free_labels
 from recouple.referee.projection import project
 from recouple.schemes.tree import Coupling
 
@@ -55,7 +56,10 @@ def verify(
     ``values`` maps every label of both schemes to a value.  ``exact`` is passed
     to the projection (None: exact when the product basis is small).
     """
-    d = derive(source, target)
+    a, b = as_scheme(source), as_scheme(target)
+    check_pair(a, b)
+    check_labels(free_labels(a, b), values)  # bad values fail before the search
+    d = derive(a, b)
     value = evaluate(d.formula, values)
     reason = why_zero(d.formula, check_values(d.formula, values))
     reference = project(d.source, d.target, values, exact=exact)

@@ -44,7 +44,14 @@ from recouple.recoupling.formula import Formula, summation_order
 from recouple.symbols.floats import ninej_float_doubled, sixj_float_doubled
 from recouple.symbols.values import ninej_doubled, sixj_doubled
 
-__all__ = ["check_values", "evaluate", "evaluate_doubled", "evaluate_float", "why_zero"]
+__all__ = [
+    "check_labels",
+    "check_values",
+    "evaluate",
+    "evaluate_doubled",
+    "evaluate_float",
+    "why_zero",
+]
 
 # An exact single-radicand number num/den * sqrt(rad): den > 0, rad square-free.
 _Exact = tuple[int, int, int]
@@ -53,9 +60,24 @@ Slots = tuple[int, ...]
 
 def check_values(formula: Formula, values: Mapping[str, object]) -> dict[str, int]:
     """The doubled value of every free label, or a :class:`BadValue` naming the problem."""
+    return check_labels(formula.free_labels, values)
+
+
+def check_labels(free: Sequence[str], values: Mapping[str, object]) -> dict[str, int]:
+    """The doubled value of each label in ``free``: every one present, no other.
+
+    The schemes' labels (:func:`~recouple.recoupling.formula.free_labels`) are known
+    before a derivation, so callers check values first and fail at once.
+
+    >>> check_labels(("a", "b", "J"), {"a": 1, "b": "1/2", "J": "1/2"})
+    {'a': 2, 'b': 1, 'J': 1}
+    >>> check_labels(("a", "J"), {"a": 1})
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BadValue: no value given for 'J' (every label of both schemes needs one: a, J)
+    """
     if not isinstance(values, Mapping):
         raise BadValue(f"values must map each label to its value, got {values!r}")
-    free = formula.free_labels
     unknown = [name for name in values if name not in free]
     if unknown:
         raise BadValue(

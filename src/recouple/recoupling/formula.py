@@ -44,6 +44,7 @@ if TYPE_CHECKING:
 
 __all__ = [
     "Formula",
+    "free_labels",
     "NineJEntries",
     "SixJEntries",
     "normal_phase",
@@ -89,9 +90,7 @@ class Formula:
     @property
     def free_labels(self) -> tuple[str, ...]:
         """Labels a value must be given for: every label of both schemes."""
-        labels = list(self.bra.labels())
-        labels += [label for label in self.ket.labels() if label not in labels]
-        return tuple(labels)
+        return free_labels(self.bra, self.ket)
 
     def triads(self) -> tuple[tuple[str, str, str], ...]:
         """The coupling triads of both schemes; a value set breaking one gives zero."""
@@ -138,6 +137,20 @@ class Formula:
         from recouple.outputs.sympy_export import formula_to_sympy
 
         return formula_to_sympy(self)
+
+
+def free_labels(bra: Coupling, ket: Coupling) -> tuple[str, ...]:
+    """Every label of both schemes, the bra's first: the values ``<bra|ket>`` needs.
+
+    Known before any derivation, so values can be checked before a long search.
+
+    >>> from recouple.schemes import parse
+    >>> free_labels(parse("((a,b)e,c)J"), parse("(a,(b,c)f)K"))
+    ('a', 'b', 'c', 'e', 'J', 'f', 'K')
+    """
+    labels = list(bra.labels())
+    labels += [label for label in ket.labels() if label not in labels]
+    return tuple(labels)
 
 
 # ---------------------------------------------------------------------------

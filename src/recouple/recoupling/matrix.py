@@ -22,11 +22,17 @@ from dataclasses import dataclass
 from recouple.errors import BadValue
 from recouple.numbers.radicals import Radical
 from recouple.numbers.spins import coupled_range, to_doubled
-from recouple.recoupling.derive import Derivation, derive
+from recouple.recoupling.derive import Derivation, as_scheme, check_pair, derive
 from recouple.recoupling.evaluate import _plan
 from recouple.schemes.tree import Coupling
 
-__all__ = ["MAX_STATES", "TransformationMatrix", "basis_states", "transformation_matrix"]
+__all__ = [
+    "MAX_STATES",
+    "TransformationMatrix",
+    "basis_states",
+    "matrix_values",
+    "transformation_matrix",
+]
 
 #: The largest basis a matrix may have; a larger request is refused up front.
 MAX_STATES = 5000
@@ -97,6 +103,44 @@ def basis_states(
     return states
 
 
+def matrix_values(
+    source: Coupling, target: Coupling, values: Mapping[str, object]
+) -> tuple[dict[str, int], int | None]:
+    """The doubled leaf values and total (None: all totals) a matrix is built for.
+
+    Checks the schemes against each other and ``values`` against them, with no
+    search, so bad input fails at once.
+
+    >>> from recouple.schemes import parse
+    >>> matrix_values(parse("(a,b)J"), parse("(b,a)K"), {"a": 1, "b": "1/2", "K": "3/2"})
+    ({'a': 2, 'b': 1}, 3)
+    >>> matrix_values(parse("(a,b)J"), parse("(b,a)J"), None)
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BadValue: values must map each leaf to its value, got None
+    """
+    check_pair(source, target)
+    if not isinstance(values, Mapping):
+        raise BadValue(f"values must map each leaf to its value, got {values!r}")
+    leaf_names = source.leaves()
+    allowed = set(leaf_names) | {source.total, target.total}
+    for name in values:
+        if name not in allowed:
+            raise BadValue(
+                f"{name!r} cannot be set for a matrix: give the leaves "
+                f"({', '.join(leaf_names)}) and optionally the total {source.total!r}"
+            )
+    missing = [leaf for leaf in leaf_names if leaf not in values]
+    if missing:
+        raise BadValue(f"no value given for leaf {', '.join(repr(m) for m in missing)}")
+    leaves = {leaf: to_doubled(values[leaf], name=leaf) for leaf in leaf_names}
+    names = (source.total, target.total)
+    totals = {to_doubled(values[k], name=k) for k in names if k in values}
+    if len(totals) > 1:
+        raise BadValue(f"{source.total!r} and {target.total!r} are given different values")
+    return leaves, (totals.pop() if totals else None)
+
+
 def transformation_matrix(
     source: Coupling | str,
     target: Coupling | str,
@@ -108,26 +152,12 @@ def transformation_matrix(
     name for it); without a total, all totals are included and the matrix is
     block diagonal in the total.
     """
-    d = derive(source, target)
-    a, b = d.source, d.target
-    leaf_names = a.leaves()
-    allowed = set(leaf_names) | {a.total, b.total}
-    for name in values:
-        if name not in allowed:
-            raise BadValue(
-                f"{name!r} cannot be set for a matrix: give the leaves "
-                f"({', '.join(leaf_names)}) and optionally the total {a.total!r}"
-            )
-    missing = [leaf for leaf in leaf_names if leaf not in values]
-    if missing:
-        raise BadValue(f"no value given for leaf {', '.join(repr(m) for m in missing)}")
-    leaves = {leaf: to_doubled(values[leaf], name=leaf) for leaf in leaf_names}
-    totals = {to_doubled(values[k], name=k) for k in (a.total, b.total) if k in values}
-    if len(totals) > 1:
-        raise BadValue(f"{a.total!r} and {b.total!r} are given different values")
-    total = totals.pop() if totals else None
+    # Schemes and values are checked before the search, which may take seconds.
+    a, b = as_scheme(source), as_scheme(target)
+    leaves, total = matrix_values(a, b, values)
     rows = basis_states(a, leaves, total)
     cols = basis_states(b, leaves, total)
+    d = derive(a, b)
     exact = _entries(d, leaves, rows, cols)
     return TransformationMatrix(
         source=a,
