@@ -798,6 +798,23 @@ def test_bug_matrix_values_not_a_mapping(values: object) -> None:
         recouple.transformation_matrix(A, B, values)  # type: ignore[arg-type]
 
 
+@pytest.mark.parametrize("path", [False, True], ids=["tree", "path"])
+def test_bug_draw_title_bad_mathtext(
+    monkeypatch: pytest.MonkeyPatch, tmp_path: Path, path: bool
+) -> None:
+    # Used to be an internal error (exit 1) with a many-line matplotlib message;
+    # now refused before the search and before any progress line.
+    monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)
+    schemes = (A, B, "--path") if path else (A,)
+    status, out, err = run("draw", *schemes, "-o", str(tmp_path / "t.png"), "--title", "$x^$")
+    assert (status, out) == (2, "")
+    assert err == (
+        "recouple: error: --title '$x^$' is not valid mathtext (the parts between '$' "
+        "signs); write \\$ for a dollar sign\n"
+    )
+    assert not (tmp_path / "t.png").exists()
+
+
 # ---------------------------------------------------------------------------
 # The docs table
 # ---------------------------------------------------------------------------

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import itertools
 import random
+import re
 import subprocess
 import sys
 import xml.etree.ElementTree as ET
@@ -284,3 +285,26 @@ def test_bad_trees() -> None:
         draw_tree(FOUR, layers="height")  # type: ignore[call-overload]
     with pytest.raises(BadValue, match="too many to draw"):
         draw_tree(_random_tree(random.Random(1), 41))
+
+
+@pytest.mark.parametrize("title", ["$x^$", "$\\frac{$", "two $j_1$ and $y^$"])
+def test_bad_mathtext_is_refused_when_drawing(tmp_path: Path, title: str) -> None:
+    # matplotlib used to raise a many-line ValueError from inside savefig (an
+    # internal error, exit 1, on the command line); now the drawing call says which
+    # text is wrong, before anything is drawn.
+    shown = re.escape(repr(title))
+    message = r" is not valid mathtext \(the parts between '\$' signs\)"
+    with pytest.raises(BadValue, match="draw_tree: the title " + shown + message) as info:
+        draw_tree(FOUR, title=title)
+    assert "\n" not in str(info.value)
+    with pytest.raises(BadValue, match="draw_path: the title " + shown + message):
+        draw_path([FOUR], [], title=title)
+    with pytest.raises(BadValue, match="draw_path: annotation 0 " + shown + message):
+        draw_path([FOUR, FOUR], [title])
+
+
+@pytest.mark.parametrize("title", ["spin $j_1$", "costs $5", "a \\$ sign", "plain"])
+def test_good_titles_still_draw(tmp_path: Path, title: str) -> None:
+    # valid mathtext, or a lone '$' (matplotlib prints it as it is)
+    assert save_figure(draw_tree(FOUR, title=title), tmp_path / "t.png").is_file()
+    assert save_figure(draw_path([FOUR], [], title=title), tmp_path / "p.png").is_file()

@@ -362,7 +362,7 @@ def _cmd_matrix(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
 
 
 def _cmd_draw(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
-    from recouple.outputs.drawing import FORMATS, draw_path, draw_tree, save_figure
+    from recouple.outputs.drawing import FORMATS, check_mathtext, draw_path, draw_tree, save_figure
     from recouple.schemes.notation import parse
 
     if args.output is None:
@@ -378,6 +378,7 @@ def _cmd_draw(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
             "two schemes given: add --path to draw the path from the first to the second, "
             "or give one scheme to draw one tree"
         )
+    check_mathtext(args.title, "--title")  # before the search, which may take seconds
     moves: list[str] = []
     if args.path:
         d = _derive(args, err)

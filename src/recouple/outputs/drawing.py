@@ -37,6 +37,7 @@ if TYPE_CHECKING:  # type names only; matplotlib itself is imported lazily
 __all__ = [
     "FORMATS",
     "MAX_DRAWN_LEAVES",
+    "check_mathtext",
     "draw_path",
     "draw_tree",
     "label_mathtext",
@@ -522,6 +523,36 @@ _TITLE_H = 0.42  # inches kept for a title line
 # ---------------------------------------------------------------------------
 
 
+def check_mathtext(text: object, where: str) -> None:
+    """Refuse text matplotlib cannot typeset, now rather than when the file is saved.
+
+    matplotlib reads text with an even number of unescaped ``$`` as mathtext and
+    raises a many-line ValueError from deep inside ``savefig`` when that part does
+    not parse.  ``where`` starts the message.
+
+    >>> check_mathtext("spin $j_1$", "the title")
+    >>> check_mathtext("$x^$", "the title")  # doctest: +ELLIPSIS
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BadValue: the title '$x^$' is not valid mathtext (the parts between ...
+    """
+    if not isinstance(text, str):
+        return
+    from matplotlib import cbook
+    from matplotlib.mathtext import MathTextParser
+
+    if not cbook.is_math_text(text):
+        return
+    try:
+        MathTextParser("path").parse(text)
+    except ValueError:
+        shown = repr(text) if len(text) <= 40 else repr(text[:37] + "...")
+        raise BadValue(
+            f"{where} {shown} is not valid mathtext (the parts between '$' signs); "
+            "write \\$ for a dollar sign"
+        ) from None
+
+
 @overload
 def draw_tree(
     scheme: Coupling | str, ax: None = None, *, title: str | None = None, layers: Layers = ...
@@ -556,6 +587,7 @@ def draw_tree(
     """
     if layers not in ("depth", "size"):
         raise BadValue(f"layers must be 'depth' or 'size', got {layers!r}")
+    check_mathtext(title, "draw_tree: the title")
     tree = _as_scheme(scheme, "draw_tree")
     spots = _layout(tree, layers)
     if ax is not None:
@@ -611,6 +643,7 @@ def draw_path(
     ...
     recouple.errors.BadValue: draw_path needs one annotation per step: 2 trees take 1, got 0
     """
+    check_mathtext(title, "draw_path: the title")
     schemes = [_as_scheme(t, f"draw_path tree {i}") for i, t in enumerate(trees)]
     notes = list(annotations)
     if not schemes:
@@ -623,6 +656,7 @@ def draw_path(
     for i, note in enumerate(notes):
         if not isinstance(note, str):
             raise TypeError(f"draw_path annotation {i}: expected a string, got {note!r}")
+        check_mathtext(note, f"draw_path: annotation {i}")
     if not isinstance(per_row, int) or per_row < 1:
         raise BadValue(f"per_row must be a positive whole number, got {per_row!r}")
 
