@@ -734,6 +734,25 @@ def test_bug_tree_with_bad_names() -> None:
         recouple.derive(bad, Coupling(Leaf("c"), Leaf("x y"), "J"))
 
 
+@pytest.mark.parametrize(
+    ("left", "shown"), [("a", "str 'a'"), (None, "NoneType None"), (5, "int 5")]
+)
+def test_bug_tree_with_parts_that_are_not_nodes(left: object, shown: str) -> None:
+    # A hand-built tree with a plain string (or None) as a part used to escape as an
+    # AttributeError from the tree walk.
+    from recouple import Coupling, Leaf
+
+    bad = Coupling(Coupling(left, Leaf("b"), "e"), Leaf("c"), "J")  # type: ignore[arg-type]
+    message = f"a scheme is built of Leaf and Coupling parts, got {shown}"
+    for call in (
+        lambda: recouple.derive(bad, B),
+        lambda: recouple.verify(bad, B, GOOD),
+        lambda: recouple.transformation_matrix(bad, B, {"a": 1, "b": 1, "c": 1}),
+    ):
+        with pytest.raises(SchemeMismatch, match=re.escape(message)):
+            call()
+
+
 def test_bug_progress_line_before_a_notation_error(monkeypatch: pytest.MonkeyPatch) -> None:
     # A scheme that is slow to read (here: as if > 1 s) must still give one line.
     monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)

@@ -201,6 +201,17 @@ def check_scheme(node: Node) -> Coupling:
         raise SchemeMismatch(
             f"a scheme needs at least two angular momenta coupled in brackets, got {node!s}"
         )
+    # A tree built by hand may hold anything; the walks below assume Leaf and Coupling.
+    stack: list[object] = [node]
+    while stack:
+        part = stack.pop()
+        if isinstance(part, Coupling):
+            stack += (part.left, part.right)
+        elif not isinstance(part, Leaf):
+            shown = repr(part) if len(repr(part)) <= 40 else repr(part)[:37] + "..."
+            raise SchemeMismatch(
+                f"a scheme is built of Leaf and Coupling parts, got {type(part).__name__} {shown}"
+            )
     for part in node.nodes():
         name = part.label
         if not isinstance(name, str) or not is_name(name):
