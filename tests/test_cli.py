@@ -294,6 +294,15 @@ BAD_INPUT = [
     (["symbol", "6j", "1", "2", "3", "1/3", "2", "3"], "'1/3'"),
     (["frobnicate"], "invalid choice"),
     (["derive", *THREE, "--max-expansions", "many"], "expected a whole number >= 0"),
+    # entries that start like negative numbers are values, so the value parser names
+    # the fault (they used to be "unrecognized arguments")
+    (["symbol", "3j", "1", "1", "1", "-nan", "0", "0"], "value of 'm1' must be an integer"),
+    (["symbol", "cg", "1", "-inf", "1", "0", "1", "0"], "value of 'm1' must be an integer"),
+    (["symbol", "cg", "1", "-1e5", "1", "0", "1", "0"], "'-1e5', beyond the limit MAX_SPIN"),
+    (["derive", *THREE, "--max-seconds", "-1e3"], "expected seconds >= 0, got '-1e3'"),
+    # --standalone without --latex used to be ignored silently
+    (["derive", *THREE, "--standalone"], "use it with --latex"),
+    (["derive", *THREE, "--python", "--standalone"], "use it with --latex"),
 ]
 
 
@@ -307,6 +316,55 @@ def test_bad_input_gives_one_line_and_status_2(argv: list[str], fragment: str) -
     assert "Traceback" not in err
     assert err.startswith("recouple")
     assert fragment in err
+
+
+def test_negative_entries_in_exponent_form_are_values() -> None:
+    # <1 -1 1 1|1 0> = -1/sqrt(2) (Condon-Shortley; sympy.physics.wigner.clebsch_gordan)
+    assert (
+        ok("symbol", "cg", "1", "-1e0", "1", "1", "1", "0") == "-sqrt(1/2)  (-0.707106781186548)\n"
+    )
+    assert ok("symbol", "cg", "1", "-1", "1", "1", "1", "0") == "-sqrt(1/2)  (-0.707106781186548)\n"
+
+
+def test_python_function_name_steps_aside_for_a_label() -> None:
+    # A total named 'overlap' used to be refused ("pick another"), which the command
+    # line gives no way to do; the function is now called overlap_.
+    source = ok("derive", "((a,b)e,c)overlap", "(a,(b,c)f)overlap", "--python")
+    assert "\ndef overlap_(*, a, b, c, e, overlap, f):\n" in source
+    namespace: dict[str, object] = {}
+    exec(source, namespace)  # noqa: S102 - our own generated code
+    values = {"a": "1/2", "b": "1/2", "c": "1/2", "e": 1, "f": 0, "overlap": "1/2"}
+    expected = derive("((a,b)e,c)overlap", "(a,(b,c)f)overlap").formula.evaluate(values)
+    assert namespace["overlap_"](**values) == expected  # type: ignore[operator]
+
+
+class _ClosedPipe(io.StringIO):
+    """stdout whose reader has gone away, as under ``recouple ... | head``."""
+
+    def write(self, text: str) -> int:
+        raise BrokenPipeError(32, "Broken pipe")
+
+
+def test_closed_pipe_is_not_an_internal_error() -> None:
+    # Used to print "internal error (BrokenPipeError ...)" and exit 1.
+    err = io.StringIO()
+    status = main(["derive", *THREE], out=_ClosedPipe(), err=err)
+    assert (status, err.getvalue()) == (141, "")
+
+
+def test_closed_pipe_subprocess() -> None:
+    # the reading end is closed before the child writes anything
+    child = subprocess.Popen(
+        [sys.executable, "-m", "recouple", "derive", *THREE],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+    )
+    assert child.stdout is not None
+    assert child.stderr is not None
+    child.stdout.close()
+    stderr = child.stderr.read()
+    child.stderr.close()
+    assert (child.wait(timeout=120), stderr) == (141, b"")
 
 
 def test_unwritable_output_is_bad_input(tmp_path: Path) -> None:

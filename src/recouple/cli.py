@@ -9,12 +9,13 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import re
 import sys
 import textwrap
 import threading
 from collections.abc import Callable, Iterator, Sequence
-from contextlib import contextmanager, redirect_stdout
+from contextlib import contextmanager, redirect_stdout, suppress
 from pathlib import Path
 from typing import Any, NoReturn, TextIO
 
@@ -54,13 +55,14 @@ def _wrap(text: str) -> str:
 class _Parser(argparse.ArgumentParser):
     """argparse with one-line errors and exit status 2.
 
-    Fractions with a minus sign (``-1/2``, projections of the symbols) are read as
-    values, not as unknown options.
+    Anything that starts like a negative number (``-1/2``, ``-1e3``, ``-.5``, also
+    ``-nan`` and ``-inf``) is read as a value, not as an unknown option, so the
+    value parser can accept it or say what is wrong with it.
     """
 
     def __init__(self, *args: Any, **kwargs: Any) -> None:
         super().__init__(*args, **kwargs)
-        self._negative_number_matcher = re.compile(r"^-(\d+(/\d+)?|\d*\.\d+)$")
+        self._negative_number_matcher = re.compile(r"^-(\d|\.\d|(inf|infinity|nan)$)", re.I)
 
     def error(self, message: str) -> NoReturn:
         raise _UsageError(f"{self.prog}: {message} (see '{self.prog} --help')")
@@ -168,6 +170,8 @@ def _derivation_json(d: Any) -> dict[str, Any]:
 
 
 def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    if args.standalone and not args.latex:
+        raise BadValue("--standalone makes a whole LaTeX document: use it with --latex")
     d = _derive(args, err)
     f = d.formula
     if args.json:
@@ -182,9 +186,14 @@ def _cmd_derive(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
             print(f.latex(), file=out)
         return 0
     if args.python:
-        from recouple.outputs.pycode import formula_python
+        from recouple.outputs.pycode import formula_python, python_names
 
-        print(formula_python(f), file=out)
+        # The function is called overlap, unless a label takes that name already.
+        taken = set(python_names(f).values())
+        name = "overlap"
+        while name in taken:
+            name += "_"
+        print(formula_python(f, name=name), file=out)
         return 0
     print(str(f), file=out)
     counts = f.counts()
@@ -622,6 +631,14 @@ def main(
     except KeyboardInterrupt:
         print(f"{PROG}: interrupted", file=err)
         return 130
+    except BrokenPipeError:
+        # The reader of stdout went away (``| head``): nothing is wrong and nothing
+        # more can be written.  Point stdout at devnull so that the interpreter's
+        # last flush stays quiet, and exit as a writer killed by SIGPIPE would.
+        if out is sys.stdout:
+            with suppress(OSError, ValueError):
+                os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 141
     except Exception as exc:  # noqa: BLE001 - the last line of defence
         print(
             f"{PROG}: internal error ({type(exc).__name__}: {exc}). This is a bug in recouple; "
