@@ -19,6 +19,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from symbol_factory import random_ninej, tri
 from sympy import Rational
 from sympy.physics.wigner import wigner_6j, wigner_9j
 
@@ -40,11 +41,6 @@ def rel_err(got: float, ref: float) -> float:
     if ref == 0.0:
         return abs(got)
     return abs(got - ref) / abs(ref)
-
-
-def tri(a: int, b: int, c: int) -> bool:
-    """Triangle condition on doubled values (DLMF 34.2.1)."""
-    return (a + b + c) % 2 == 0 and abs(a - b) <= c <= a + b
 
 
 def check_sixj(rows: list[tuple[int, ...]]) -> float:
@@ -82,19 +78,6 @@ def random_sixj(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:
         fs = [f for f in range(abs(a - e), a + e + 1, 2) if lo <= f <= hi and tri(d, b, f)]
         if cs and fs:
             return a, b, rng.choice(cs), d, e, rng.choice(fs)
-
-
-def random_ninej(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:
-    """A doubled 9j with its six row and column triads admissible."""
-    while True:
-        a, b, d, e = (rng.randint(lo, hi) for _ in range(4))
-        c = rng.randrange(abs(a - b), a + b + 1, 2)
-        f = rng.randrange(abs(d - e), d + e + 1, 2)
-        g = rng.randrange(abs(a - d), a + d + 1, 2)
-        h = rng.randrange(abs(b - e), b + e + 1, 2)
-        i_s = [i for i in range(abs(g - h), g + h + 1, 2) if tri(c, f, i)]
-        if i_s:
-            return a, b, c, d, e, f, g, h, rng.choice(i_s)
 
 
 # -- agreement with the exact path --------------------------------------------------------------

@@ -11,6 +11,7 @@ from __future__ import annotations
 import random
 
 import mpmath
+from symbol_factory import random_ninej, tri
 from sympy import Rational
 from sympy.physics.wigner import wigner_6j
 
@@ -26,10 +27,6 @@ from recouple.symbols import (
 )
 
 
-def tri(a: int, b: int, c: int) -> bool:
-    return (a + b + c) % 2 == 0 and abs(a - b) <= c <= a + b
-
-
 def random_sixj(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:
     """Doubled admissible 6j with entries in [lo, hi]."""
     while True:
@@ -40,18 +37,6 @@ def random_sixj(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:
         fs = [f for f in range(lo, hi + 1) if tri(a, e, f) and tri(d, b, f)]
         if fs and c <= hi and e <= hi:
             return a, b, c, d, e, rng.choice(fs)
-
-
-def random_ninej(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:
-    while True:
-        a, b, d, e = (rng.randint(lo, hi) for _ in range(4))
-        c = rng.randrange(abs(a - b), a + b + 1, 2)
-        f = rng.randrange(abs(d - e), d + e + 1, 2)
-        g = rng.randrange(abs(a - d), a + d + 1, 2)
-        h = rng.randrange(abs(b - e), b + e + 1, 2)
-        i_s = [i for i in range(0, 2 * hi + 1) if tri(c, f, i) and tri(g, h, i)]
-        if i_s:
-            return a, b, c, d, e, f, g, h, rng.choice(i_s)
 
 
 def mp_fact(n2: int) -> mpmath.mpf:
