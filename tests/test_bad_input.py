@@ -867,3 +867,35 @@ def test_docs_table_matches_the_cases() -> None:
 
 if __name__ == "__main__":
     print(table())
+
+
+@pytest.mark.parametrize("flag", ["no", "", 1, 0, None, 0.0])
+def test_bug_derive_compact_must_be_a_bool(flag: object) -> None:
+    # derive(compact="no") used to run the fewer-sums search: any truthy object was
+    # taken as True.
+    with pytest.raises(BadValue, match=r"^compact must be True or False, got "):
+        recouple.derive("((a,b)e,c)J", "(a,(b,c)f)J", compact=flag)  # type: ignore[arg-type]
+
+
+@pytest.mark.parametrize("flag", ["x", "False", 1, 0])
+def test_bug_exact_must_be_a_bool_or_none(flag: object) -> None:
+    # verify(exact="x") and project(exact=1) used to be taken as truthy; None stays
+    # the documented "exact when small".
+    values = {"a": 1, "b": 1, "c": 1, "e": 1, "f": 1, "J": 1}
+    with pytest.raises(BadValue, match=r"^exact must be True, False or None, got "):
+        recouple.verify("((a,b)e,c)J", "(a,(b,c)f)J", values, exact=flag)  # type: ignore[arg-type]
+    with pytest.raises(BadValue, match=r"^exact must be True, False or None, got "):
+        projection.project("(a,b)c", "(b,a)c", {"a": 1, "b": 1, "c": 1}, exact=flag)  # type: ignore[arg-type]
+    assert recouple.verify("((a,b)e,c)J", "(a,(b,c)f)J", values, exact=None).agree
+
+
+@pytest.mark.parametrize("writer", ["formula_latex", "latex_document", "formula_python"])
+@pytest.mark.parametrize("thing", [None, "<((a,b)e,c)J|(a,(b,c)f)J>", 5])
+def test_bug_writers_refuse_what_is_not_a_formula(writer: str, thing: object) -> None:
+    # latex_document(None) used to end in an AttributeError deep inside the writer.
+    from recouple.outputs import latex, pycode
+
+    write = getattr(latex, writer, None) or getattr(pycode, writer)
+    message = rf"^{writer} needs a Formula .*, got {type(thing).__name__}$"
+    with pytest.raises(TypeError, match=message):
+        write(thing)

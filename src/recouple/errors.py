@@ -22,6 +22,7 @@ __all__ = [
     "NotationError",
     "RecoupleError",
     "SchemeMismatch",
+    "check_flag",
 ]
 
 
@@ -72,3 +73,19 @@ class BadValue(RecoupleError):
 
 class BudgetExceeded(RecoupleError):
     """A search or computation that ran past the budget the caller set."""
+
+
+def check_flag(value: object, name: str, *, none: bool = False) -> None:
+    """Refuse a switch that is not ``True`` or ``False`` (or ``None`` where ``none``):
+    a string like ``"no"`` would otherwise silently count as true.
+
+    >>> check_flag(True, "exact")
+    >>> check_flag("no", "compact")
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BadValue: compact must be True or False, got 'no'
+    """
+    if isinstance(value, bool) or (none and value is None):
+        return
+    allowed = "True, False or None" if none else "True or False"
+    raise BadValue(f"{name} must be {allowed}, got {value!r}")

@@ -14,6 +14,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass
 
+from recouple.errors import check_flag
 from recouple.numbers.radicals import Radical
 from recouple.recoupling.derive import Derivation, as_scheme, check_pair, derive
 from recouple.recoupling.evaluate import check_labels, check_values, evaluate, why_zero
@@ -56,6 +57,7 @@ def verify(
     ``values`` maps every label of both schemes to a value.  ``exact`` is passed
     to the projection (None: exact when the product basis is small).
     """
+    check_flag(exact, "exact", none=True)
     a, b = as_scheme(source), as_scheme(target)
     check_pair(a, b)
     check_labels(free_labels(a, b), values)  # bad values fail before the search

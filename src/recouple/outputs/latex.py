@@ -23,6 +23,7 @@ from typing import TYPE_CHECKING
 
 from recouple.errors import BadValue
 from recouple.outputs.drawing import subscript_split
+from recouple.outputs.text import require_formula
 from recouple.schemes.tree import Coupling, Leaf, Node
 
 if TYPE_CHECKING:
@@ -91,6 +92,7 @@ def formula_latex(formula: Formula, *, overlap: bool = True) -> str:
     ...
     TypeError: formula_latex() got an unexpected keyword argument 'width'
     """
+    require_formula(formula, "formula_latex")
     body = " ".join(piece.tex for piece in _rhs_pieces(formula))
     if not overlap:
         return body
@@ -110,6 +112,7 @@ def latex_document(formula: Formula, *, title: str | None = None) -> str:
     >>> doc.splitlines()[0], doc.count("Bmatrix") - 2, doc.rstrip().endswith(r"\end{document}")
     ('\\documentclass[11pt]{article}', 2, True)
     """
+    require_formula(formula, "latex_document")
     lines = [
         r"\documentclass[11pt]{article}",
         r"\usepackage[a4paper,margin=2cm]{geometry}",

@@ -38,7 +38,7 @@ import keyword
 from typing import TYPE_CHECKING
 
 from recouple.errors import BadValue
-from recouple.outputs.text import exponent_text
+from recouple.outputs.text import exponent_text, require_formula
 from recouple.recoupling.formula import summation_order
 
 if TYPE_CHECKING:
@@ -65,6 +65,7 @@ def formula_python(formula: Formula, *, name: str = "overlap") -> str:
     >>> "def w(*, a, b, c, e, J_p, f):" in src, "J' is passed as J_p" in src
     (True, True)
     """
+    require_formula(formula, "formula_python")
     if not isinstance(name, str) or not name.isidentifier() or keyword.iskeyword(name):
         raise BadValue(f"function name {name!r} is not a Python identifier")
     if name in _INTERNAL:

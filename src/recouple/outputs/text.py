@@ -19,6 +19,23 @@ if TYPE_CHECKING:
 __all__ = ["exponent_text", "factor_texts", "formula_text"]
 
 
+def require_formula(value: object, where: str) -> None:
+    """Refuse anything but a :class:`Formula` at a writer's door, in one line
+    (a wrong object would otherwise fail deep inside with an AttributeError).
+
+    >>> require_formula(None, "latex_document")
+    Traceback (most recent call last):
+    ...
+    TypeError: latex_document needs a Formula (such as derive(...).formula), got NoneType
+    """
+    from recouple.recoupling.formula import Formula  # writers sit above the formula layer
+
+    if not isinstance(value, Formula):
+        raise TypeError(
+            f"{where} needs a Formula (such as derive(...).formula), got {type(value).__name__}"
+        )
+
+
 def exponent_text(phase: tuple[tuple[str, int], ...], constant: int = 0) -> str:
     """The exponent of a phase, e.g. ``a+b-e`` (coefficient 3 is written as -1: (-1)^(4j) = 1).
 

@@ -16,7 +16,7 @@ import time
 from collections import Counter
 from dataclasses import dataclass
 
-from recouple.errors import BadValue, SchemeMismatch
+from recouple.errors import BadValue, SchemeMismatch, check_flag
 from recouple.recoupling.compact import (
     COMPACT_BOUND_MAX_LEAVES,
     COMPACT_MAX_EXPANSIONS,
@@ -163,6 +163,7 @@ def derive(
     >>> d.steps, [m.kind for m in d.moves]
     (1, ['racah'])
     """
+    check_flag(compact, "compact")
     a, b = as_scheme(source), as_scheme(target)
     check_pair(a, b)
     leaves = a.leaves()

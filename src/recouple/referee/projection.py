@@ -33,7 +33,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import TypeVar
 
-from recouple.errors import BadValue, BudgetExceeded, SchemeMismatch
+from recouple.errors import BadValue, BudgetExceeded, SchemeMismatch, check_flag
 from recouple.numbers.radicals import Radical
 from recouple.numbers.spins import (
     is_triad,
@@ -203,6 +203,7 @@ def project(
     ...
     recouple.errors.BadValue: unknown label 'd' in values: not in (a,b)c or (b,a)c
     """
+    check_flag(exact, "exact", none=True)
     case = _prepare(a, b, values, m)
     if case.reason is not None:
         return _exact_zero()
