@@ -899,3 +899,21 @@ def test_bug_writers_refuse_what_is_not_a_formula(writer: str, thing: object) ->
     message = rf"^{writer} needs a Formula .*, got {type(thing).__name__}$"
     with pytest.raises(TypeError, match=message):
         write(thing)
+
+
+def test_bug_referee_too_large_fails_before_the_search(monkeypatch: pytest.MonkeyPatch) -> None:
+    # evaluate --check with a product space above the referee's limit used to run the
+    # search first (seconds, a progress line) and only then fail; now it fails first.
+    monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)
+
+    def no_search(*args: object, **kwargs: object) -> None:
+        raise AssertionError("derive() ran before the referee's size was checked")
+
+    monkeypatch.setattr("recouple.recoupling.derive.derive", no_search)
+    sets = ["--set", "a=800", "--set", "b=800", "--set", "c=800", "--set", "e=0"]
+    sets += ["--set", "f=800", "--set", "J=800"]
+    status, out, err = run("evaluate", "((a,b)e,c)J", "(a,(b,c)f)J", *sets, "--check")
+    assert (status, out) == (2, "")
+    assert err.count("\n") == 1
+    assert err.startswith("recouple: error: the product space of ")
+    assert "more than the referee's limit of 2097152" in err

@@ -107,17 +107,27 @@ def _search_options(args: argparse.Namespace) -> dict[str, Any]:
     return options
 
 
-def _derive(args: argparse.Namespace, err: TextIO, values: dict[str, str] | None = None) -> Any:
+def _derive(
+    args: argparse.Namespace,
+    err: TextIO,
+    values: dict[str, str] | None = None,
+    *,
+    projecting: bool = False,
+) -> Any:
     from recouple.recoupling.derive import as_scheme, check_pair, derive
     from recouple.recoupling.evaluate import check_labels
     from recouple.recoupling.formula import free_labels
+    from recouple.referee.projection import check_size
 
-    # Read and compare the schemes, and check the values, first: bad input fails at
-    # once, before a search that may take seconds and before any progress line.
+    # Read and compare the schemes, and check the values (and, when the referee will
+    # run, the size of its product space) first: bad input fails at once, before a
+    # search that may take seconds and before any progress line.
     source, target = as_scheme(args.source), as_scheme(args.target)
     check_pair(source, target)
     if values is not None:
         check_labels(free_labels(source, target), values)
+        if projecting:
+            check_size(source, target, values)
     with _progress("searching for the shortest path", err):
         return derive(source, target, **_search_options(args))
 
@@ -238,7 +248,7 @@ def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     from recouple.recoupling.evaluate import check_values, evaluate, why_zero
 
     values = _parse_sets(args.set)
-    d = _derive(args, err, values)
+    d = _derive(args, err, values, projecting=args.check)
     f = d.formula
     doubled = check_values(f, values)
     value = evaluate(f, values)

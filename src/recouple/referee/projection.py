@@ -51,6 +51,7 @@ __all__ = [
     "EXACT_LIMIT",
     "MAX_DIMENSION",
     "basis_order",
+    "check_size",
     "coupled_state",
     "project",
     "why_zero",
@@ -350,6 +351,22 @@ def _zero_reason(a: Coupling, b: Coupling, doubled: Mapping[str, int]) -> str | 
             f"{spin_text(doubled[la])} in {a} but to {lb} = {spin_text(doubled[lb])} in {b}"
         )
     return None
+
+
+def check_size(a: SchemeLike, b: SchemeLike, values: Mapping[str, object]) -> None:
+    """Raise what :func:`project` would raise for these arguments, without projecting:
+    bad values, or a product space above :data:`MAX_DIMENSION` (so a caller can fail
+    before slow work that would end in the projection anyway).
+
+    >>> check_size("(a,b)c", "(b,a)c", {"a": 1, "b": 1, "c": 1})  # 9 states: fine
+    >>> check_size("(a,b)c", "(b,a)c", {"a": 800, "b": 800, "c": 0})
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BudgetExceeded: the product space of (a,b)c has 2563201 states, ...
+    """
+    case = _prepare(a, b, values, None)
+    if case.reason is None:  # a selection-rule zero is never projected
+        _check_budget(case.a, case.doubled)
 
 
 def _dimension(tree: Coupling, doubled: Mapping[str, int]) -> int:
