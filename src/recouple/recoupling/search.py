@@ -882,14 +882,16 @@ def _astar(
         if lo is None:
             lo = _order_bound(gone, new, 0, parts)
         # is k <= need - a possible?  If not, the bound exceeds need.
-        if (
-            lo <= need
-            and need - a < a
-            and _needs_fit(_needs_options(gone, new, known | have, n), need - a, None, deadline)
-            is False
-        ):
-            lo = need + 1
-        if lo <= need:
+        fits: bool | None = None
+        if lo <= need and need - a < a:
+            problem = _needs_options(gone, new, known | have, n)
+            fits = _needs_fit(problem, need - a, None, deadline)
+            if fits is False:
+                lo = need + 1
+        # A matching that passes the needs test is ordered, so its pairs can each be the
+        # last source cluster crossing their target (idle removals first): P >= a - k,
+        # and the full order bound 2a - P cannot exceed need.  Skip it then.
+        if lo <= need and fits is not True:
             order = orders.get(gone_key)
             if order is None:
                 order = orders[gone_key] = _order_bound(gone, new, _BRANCH_BUDGET, parts)
