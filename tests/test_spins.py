@@ -188,3 +188,31 @@ def test_number_with_thousands_of_digits_gets_a_short_message(value: object) -> 
         with pytest.raises(BadValue, match="a number with thousands of digits") as info:
             parse(value, name="j")
         assert len(info.value.one_line()) < 120
+
+
+def test_other_exact_number_types_are_read_exactly() -> None:
+    # numpy floats other than float64 and Decimal were refused although exact; they are
+    # read by their exact value (as_integer_ratio, Decimal text), so 0.5 + 1e-19 in long
+    # double is still not a half-integer, and NaN or an exponent out of range is refused.
+    from decimal import Decimal
+
+    import numpy as np
+
+    for value, expected in (
+        (np.float32(0.5), Fraction(1, 2)),
+        (np.float16(1.5), Fraction(3, 2)),
+        (np.longdouble(2.5), Fraction(5, 2)),
+        (Decimal("1.5"), Fraction(3, 2)),
+        (Decimal("0.5E+1"), Fraction(5)),
+    ):
+        assert parse_spin(value) == expected
+    assert parse_projection(np.float32(-0.5)) == Fraction(-1, 2)
+    off = np.longdouble(0.5) + np.longdouble(2) ** -60
+    refused = (np.float32("nan"), np.float32("inf"), Decimal("NaN"), Decimal("0.3"), off)
+    for value in refused:
+        if value is off and off == np.longdouble(0.5):
+            continue  # a platform whose long double is a plain double cannot hold it
+        with pytest.raises(BadValue, match="integer or half-integer"):
+            parse_spin(value)
+    with pytest.raises(BadValue, match="above the limit MAX_SPIN"):
+        parse_spin(Decimal("1e99999999999"))

@@ -77,6 +77,16 @@ def _to_fraction(value: object, *, name: str | None, what: str, rule: str) -> Fr
         if not math.isfinite(value):
             raise BadValue(f"{where} must be {rule}, got {value!r}")
         return Fraction(value)
+    if isinstance(value, Decimal):
+        # through its text: an exponent far out of range is refused without building it
+        return _exponent_form(str(value), where=where, rule=rule, shown=_shown(value))
+    if isinstance(value, numbers.Real) and hasattr(value, "as_integer_ratio"):
+        # other binary floats (numpy float32, longdouble, ...): their exact value
+        try:
+            num, den = value.as_integer_ratio()
+        except (ValueError, OverflowError):  # nan, inf
+            raise BadValue(f"{where} must be {rule}, got {_shown(value)}") from None
+        return Fraction(num, den)
     if isinstance(value, str):
         text = value.strip()
         shown = _shown(value)
@@ -109,6 +119,8 @@ def _exponent_form(text: str, *, where: str, rule: str, shown: str) -> Fraction:
         dec = Decimal(text)
     except InvalidOperation:
         raise BadValue(f"{where} must be {rule}, got {shown}") from None
+    if not dec.is_finite():  # a Decimal NaN or Infinity given as such
+        raise BadValue(f"{where} must be {rule}, got {shown}")
     if dec.is_zero():
         return Fraction(0)
     sign = -1 if dec.is_signed() else 1
