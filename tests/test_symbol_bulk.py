@@ -14,6 +14,7 @@ from __future__ import annotations
 import itertools
 import math
 import random
+from typing import Any
 
 import numpy as np
 import pytest
@@ -43,31 +44,26 @@ def rel_err(got: float, ref: float) -> float:
     return abs(got - ref) / abs(ref)
 
 
-def check_sixj(rows: list[tuple[int, ...]]) -> float:
+def _check(rows: list[tuple[int, ...]], width: int, bulk: Any, exact: Any, rounded: Any) -> float:
     """Bulk against the exact path row by row; returns the worst relative error."""
-    got = sixj_float_many(np.array(rows, dtype=np.int64).reshape(-1, 6))
+    got = bulk(np.array(rows, dtype=np.int64).reshape(-1, width))
     worst = 0.0
     for row, value in zip(rows, got, strict=True):
-        if sixj_doubled(*row) == 0:  # exact zero (triangle or nontrivial): exactly 0.0
+        if exact(*row) == 0:  # exact zero (triangle or nontrivial): exactly 0.0
             assert value == 0.0, row
             continue
-        err = rel_err(float(value), sixj_float_doubled(*row))
+        err = rel_err(float(value), rounded(*row))
         assert err <= PROMISE, (row, value)
         worst = max(worst, err)
     return worst
+
+
+def check_sixj(rows: list[tuple[int, ...]]) -> float:
+    return _check(rows, 6, sixj_float_many, sixj_doubled, sixj_float_doubled)
 
 
 def check_ninej(rows: list[tuple[int, ...]]) -> float:
-    got = ninej_float_many(np.array(rows, dtype=np.int64).reshape(-1, 9))
-    worst = 0.0
-    for row, value in zip(rows, got, strict=True):
-        if ninej_doubled(*row) == 0:
-            assert value == 0.0, row
-            continue
-        err = rel_err(float(value), ninej_float_doubled(*row))
-        assert err <= PROMISE, (row, value)
-        worst = max(worst, err)
-    return worst
+    return _check(rows, 9, ninej_float_many, ninej_doubled, ninej_float_doubled)
 
 
 def random_sixj(rng: random.Random, lo: int, hi: int) -> tuple[int, ...]:

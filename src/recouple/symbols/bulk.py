@@ -44,6 +44,7 @@ array([0.16666667, 0.5       , 0.        ])
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import lru_cache
@@ -440,6 +441,17 @@ def _sixj_chunk(rows: IArr) -> tuple[FArr, FArr]:
     return out, bound
 
 
+def _vouched(
+    rows: IArr, values: FArr, bound: FArr, tol: float, exact: Callable[..., float]
+) -> BulkFloats:
+    """Recompute, with ``exact`` (the per-call path), every entry whose proven bound
+    is not within ``tol`` or whose value is too small to trust; the audit trail."""
+    redo = ~(bound <= tol) | (np.abs(values) < _TINY) & (bound > 0)
+    for k in np.flatnonzero(redo):
+        values[k] = exact(*(int(x) for x in rows[k]))
+    return BulkFloats(values, bound, redo)
+
+
 def sixj_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE) -> BulkFloats:
     """Bulk 6j with the audit trail (:class:`BulkFloats`); see :func:`sixj_float_many`.
 
@@ -458,10 +470,7 @@ def sixj_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE) 
             v, bd = _sixj_chunk(rows[start : start + _CHUNK6])
             values[start : start + _CHUNK6] = v
             bound[start : start + _CHUNK6] = bd
-    redo = ~(bound <= tol) | (np.abs(values) < _TINY) & (bound > 0)
-    for k in np.flatnonzero(redo):
-        values[k] = sixj_float_doubled(*(int(x) for x in rows[k]))
-    return BulkFloats(values, bound, redo)
+    return _vouched(rows, values, bound, tol, sixj_float_doubled)
 
 
 def sixj_float_many(args: object, *, tolerance: float = BULK_TOLERANCE) -> FArr:
@@ -631,10 +640,7 @@ def ninej_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE)
             values[start:stop] = v
             bound[start:stop] = bd
             start = stop
-    redo = ~(bound <= tol) | (np.abs(values) < _TINY) & (bound > 0)
-    for k in np.flatnonzero(redo):
-        values[k] = ninej_float_doubled(*(int(x) for x in rows[k]))
-    return BulkFloats(values, bound, redo)
+    return _vouched(rows, values, bound, tol, ninej_float_doubled)
 
 
 def ninej_float_many(args: object, *, tolerance: float = BULK_TOLERANCE) -> FArr:
