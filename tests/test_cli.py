@@ -379,6 +379,34 @@ def test_unwritable_output_is_bad_input(tmp_path: Path) -> None:
     assert "cannot write" in err
 
 
+def test_bad_output_names_fail_before_the_work(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The file name is checked before the matrix is built or the path searched: the
+    # builders are replaced by a fault, so reaching them would be status 1, not 2.
+    import recouple.outputs.drawing as drawing
+    import recouple.recoupling.matrix as matrix
+
+    def never(*args: object, **kwargs: object) -> None:
+        raise RuntimeError("the work started before the file name was checked")
+
+    monkeypatch.setattr(matrix, "transformation_matrix", never)
+    monkeypatch.setattr(drawing, "draw_path", never)
+    monkeypatch.setattr(drawing, "draw_tree", never)
+    cases = [
+        (["matrix", *THREE, *HALVES, "--csv", ""], "--csv: empty file name"),
+        (["matrix", *THREE, *HALVES, "--csv", str(tmp_path)], "is a directory"),
+        (["matrix", *THREE, *HALVES, "--csv", str(tmp_path / "no" / "m.csv")], "does not exist"),
+        (["draw", *THREE, "--path", "-o", str(tmp_path / "no" / "p.svg")], "does not exist"),
+        (["draw", "(a,b)J", "-o", str(tmp_path / "t.svg"), "--max-seconds", "2"], "--path"),
+        (["draw", "(a,b)J", "-o", str(tmp_path / "t.svg"), "--max-expansions", "9"], "--path"),
+    ]
+    for argv, words in cases:
+        status, out, err = run(*argv)
+        assert (status, out) == (2, ""), (argv, err)
+        assert words in err and err.count("\n") == 1, (argv, err)
+
+
 def test_internal_error_is_status_1_and_one_line(monkeypatch: pytest.MonkeyPatch) -> None:
     import recouple.symbols.values as sv
 

@@ -318,6 +318,18 @@ def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     return 0
 
 
+def _check_writable(path: str, option: str) -> None:
+    """Refuse, before any long computation, a file name that cannot be written."""
+    if not path.strip():
+        raise BadValue(f"{option}: empty file name")
+    target = Path(path)
+    if target.is_dir():
+        raise BadValue(f"{option}: {path!r} is a directory, not a file name")
+    parent = target.parent
+    if not parent.is_dir():
+        raise BadValue(f"{option}: cannot write {path!r}: directory {str(parent)!r} does not exist")
+
+
 def _write_file(path: str, write: Callable[[Path], object]) -> Path:
     """Run ``write`` on ``path``; a file that cannot be written is bad input, not a bug."""
     target = Path(path)
@@ -337,6 +349,8 @@ def _cmd_matrix(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
 
     if args.csv == "-" and args.json:
         raise BadValue("--csv - and --json both write to stdout: give --csv a file name")
+    if args.csv is not None and args.csv != "-":
+        _check_writable(args.csv, "--csv")
     values = _parse_sets(args.set)
     # Bad input fails at once, before the search and before any progress line.
     source, target = as_scheme(args.source), as_scheme(args.target)
@@ -390,6 +404,14 @@ def _cmd_draw(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     if ext not in FORMATS:
         shown = repr(ext) if ext else "a file without an extension"
         raise BadValue(f"cannot draw into {shown} ({args.output!r}); use .png, .svg or .pdf")
+    _check_writable(args.output, "-o")
+    if not args.path:
+        for given, flag in (
+            (args.max_seconds, "--max-seconds"),
+            (args.max_expansions, "--max-expansions"),
+        ):
+            if given is not None:
+                raise BadValue(f"{flag} budgets the search of --path; one tree needs no search")
     if args.path and args.target is None:
         raise BadValue("--path needs two schemes: draw FROM TO --path -o FILE")
     if not args.path and args.target is not None:
