@@ -205,18 +205,106 @@ def test_double_double_sum_where_plain_floats_fail() -> None:
     assert check_sixj(rows) <= PROMISE
 
 
-def test_nontrivial_zero_is_recomputed_exactly() -> None:
+def test_nontrivial_zeros_at_small_j_are_exact_without_recompute() -> None:
     # reference: recouple's exact 6j gives exact zero for {2 3/2 3/2; 3/2 2 2}
-    # although all four triads hold; the bound cannot vouch for a zero sum, so the
-    # entry goes to the exact path and comes back as 0.0, not rounding noise.
+    # although all four triads hold, and the 9j with all j = 1 is 0 (CONVENTIONS
+    # 2.5).  The exact integer path proves them zero (bound 0.0), so they are not
+    # recomputed, and they are +0.0, not rounding noise or -0.0.
     row = (4, 3, 3, 3, 4, 4)
     assert sixj_doubled(*row) == 0
     got = sixj_float_many_checked(np.array([row, (2, 2, 2, 2, 2, 2)]))
     assert got.values[0] == 0.0
-    assert got.recomputed.tolist() == [True, False]
-    nine = ninej_float_many_checked(np.array([[2] * 9]))  # CONVENTIONS 2.5: exactly 0
+    assert not np.signbit(got.values[0])
+    assert got.bound.tolist() == [0.0, 8 * 2.0**-53]
+    assert got.recomputed.tolist() == [False, False]
+    nine = ninej_float_many_checked(np.array([[2] * 9]))
+    assert ninej_doubled(*[2] * 9) == 0
     assert nine.values[0] == 0.0
-    assert bool(nine.recomputed[0])
+    assert not np.signbit(nine.values[0])
+    assert nine.bound[0] == 0.0
+    assert not bool(nine.recomputed[0])
+
+
+@pytest.mark.parametrize(
+    ("row", "width"),
+    [
+        ((13, 18, 19, 17, 10, 5), 6),  # every column sum above 38: the general path
+        ((12, 14, 4, 23, 21, 19), 6),
+        ((9, 11, 8, 10, 12, 6, 7, 17, 10), 9),  # a+d+h+i = 46: the general path
+        ((6, 12, 16, 5, 6, 3, 11, 10, 19), 9),
+    ],
+)
+def test_nontrivial_zero_beyond_the_integer_path_is_recomputed(
+    row: tuple[int, ...], width: int
+) -> None:
+    # reference: recouple's exact 6j / 9j give exact zero for these rows (found by a
+    # seeded search); the double-double bound cannot vouch for a zero sum, so the
+    # entry goes to the exact path and comes back as 0.0.
+    exact = sixj_doubled if width == 6 else ninej_doubled
+    bulk = sixj_float_many_checked if width == 6 else ninej_float_many_checked
+    assert exact(*row) == 0
+    got = bulk(np.array([row]))
+    assert got.values[0] == 0.0
+    assert bool(got.recomputed[0])
+
+
+def _admissible_ninej(top: int) -> list[tuple[int, ...]]:
+    """Every 9j (doubled, rows in order) with each 2j in 0..top and its six row and
+    column triads admissible (DLMF 34.2.1)."""
+    span = range(top + 1)
+    out = []
+    for a, b, d, e in itertools.product(span, repeat=4):
+        for c, f, g, h in itertools.product(span, repeat=4):
+            if not (tri(a, b, c) and tri(d, e, f) and tri(a, d, g) and tri(b, e, h)):
+                continue
+            out += [(a, b, c, d, e, f, g, h, i) for i in span if tri(c, f, i) and tri(g, h, i)]
+    return out
+
+
+@pytest.mark.slow
+def test_ninej_exhaustive_admissible_up_to_2j_5() -> None:
+    # reference: recouple's exact 9j (DLMF 34.6.2): every admissible 9j with each 2j
+    # in 0..5, all on the exact integer path (bound 8 u, or 0.0 for a proven zero),
+    # nontrivial zeros exactly 0.0, nothing recomputed.
+    rows = _admissible_ninej(5)
+    assert len(rows) > 30000
+    assert check_ninej(rows) <= 8 * 2.0**-53 + 4.5e-16  # 8 u plus the reference's rounding
+    got = ninej_float_many_checked(np.array(rows))
+    assert not got.recomputed.any()
+    assert (got.bound <= 8 * 2.0**-53).all()
+    zeros = got.bound == 0.0
+    assert zeros.sum() > 100  # nontrivial zeros are among them, proven exact
+    assert (got.values[zeros] == 0.0).all()
+
+
+@pytest.mark.parametrize("top_sum", [36, 38, 40, 42])
+def test_sixj_at_the_edge_of_the_integer_path(top_sum: int) -> None:
+    # reference: recouple's exact 6j.  Rows whose smallest column sum is near the
+    # integer path's limit of 38 (doubled), where its integers are largest (up to
+    # about 20!): exact agreement below the limit, the general path above it.
+    rng = random.Random(top_sum)
+    rows: list[tuple[int, ...]] = []
+    while len(rows) < 60:
+        a, b, c, d, e, f = random_sixj(rng, 6, 14)
+        if min(a + b + d + e, b + c + e + f, c + a + f + d) == top_sum:
+            rows.append((a, b, c, d, e, f))
+    assert check_sixj(rows) <= PROMISE
+    got = sixj_float_many_checked(np.array(rows))
+    on_integer_path = got.bound <= 8 * 2.0**-53
+    assert on_integer_path.all() == (top_sum <= 38)
+    assert on_integer_path.any() == (top_sum <= 38)
+
+
+def test_ninej_integer_check_and_its_fallback() -> None:
+    # reference: recouple's exact 9j.  At 2j from 6 to 10 the inner column sums are
+    # within the integer path's limit, but many x-terms are too large for its check,
+    # so those symbols go to the double-double path; both kinds must be right.
+    rng = random.Random(77)
+    rows = [random_ninej(rng, 6, 10) for _ in range(120)]
+    assert check_ninej(rows) <= PROMISE
+    got = ninej_float_many_checked(np.array(rows))
+    on_integer_path = got.bound <= 8 * 2.0**-53
+    assert 10 <= on_integer_path.sum() <= len(rows) - 10
 
 
 def test_ill_conditioned_large_j_are_recomputed() -> None:

@@ -12,10 +12,27 @@ the tolerance is recomputed from the exact integer sums of
 :mod:`recouple.symbols.floats` (one rounding).  So nontrivial zeros come out as
 ``0.0`` and the answer is never worse than 1e-12, at any j up to ``MAX_SPIN``;
 only the speed depends on how many entries need the exact path (in random
-samples: only exact zeros up to 2j = 200; every 6j at 2j ~ 400 and beyond, where
+samples: none at small j, where the integer path below settles zeros too; only
+exact zeros beyond it up to 2j = 200; every 6j at 2j ~ 400 and beyond, where
 the alternating sums cancel more than double-double can vouch for).
 
-Method (6j, DLMF 34.4.2).  Racah's sum is taken relative to its first term:
+Method (small arguments, exact integers).  Used for a 6j when one of its column
+sums ``a+b+d+e``, ``b+c+e+f``, ``c+a+f+d`` (doubled) is at most 38, and for a 9j
+when each of its three inner 6j has such a sum (so for every 6j and 9j with all
+2j <= 9).  Each term of Racah's sum (DLMF 34.4.2) is (s+1) times a multinomial
+coefficient, so the sum R is an integer, and so is ``N = 1 / Delta^2 =
+(J+1)! / (k1! k2! k3!)`` (DLMF 34.2.5); with every factorial argument at most 20
+(20! < 2^63) they are computed exactly in int64, with no overflow (the argument
+is in ``_racah_ints``).  The 6j is ``R / sqrt(N1 N2 N3 N4)``: relative error
+<= 8 u (u = 2^-53), and exactly ``0.0`` when R = 0.  For the 9j (DLMF 34.6.2)
+the x-term ``(-1)^(2x) (2x+1) R1 R2 R3 / Q_x`` (Q_x the product of the three
+x-dependent N) is used as an integer only where that is verified, by rounding
+it from float64 and checking the product exactly modulo 2^64 (``_ninej_ints``);
+the x-sum is then an exact integer S and the 9j is ``S / sqrt(M)``, M the
+product of the six row and column N: <= 8 u, and exactly ``0.0`` when S = 0.
+A 9j whose check fails takes the general path below.
+
+Method (6j, DLMF 34.4.2, general path).  Racah's sum is taken relative to its first term:
 ``{...} = (-1)^smin * sqrt(prod Delta^2) * t(smin) * sum_k rho_k`` with
 ``rho_0 = 1`` and ``rho_(k+1) = rho_k * (-num_k / den_k)``, where ``num_k`` and
 ``den_k`` are products of four small integers, exact in float64 (below 2^53 for
@@ -28,7 +45,7 @@ is built in float64 from a table of factorials stored as mantissa and binary
 exponent (each entry correctly rounded from the exact integer ``n!``, so the
 table does not overflow at 171!).
 
-Method (9j, DLMF 34.6.2).  ``sum_x (-1)^(2x) (2x+1) {a d g; h i x} {b e h; d x f}
+Method (9j, DLMF 34.6.2, general path).  ``sum_x (-1)^(2x) (2x+1) {a d g; h i x} {b e h; d x f}
 {c f i; x a b}``, vectorised over all (symbol, x) pairs.  The six row and column
 triangle coefficients leave the sum as one square root; the x-dependent ones
 come in squares, so each term is rational and is built in double-double, then
@@ -95,8 +112,9 @@ class BulkFloats:
 
     ``values``: the float64 results.  ``bound``: the proven relative error bound of
     the vectorised float computation of each entry (``inf`` where it proved
-    nothing, ``0.0`` for triangle zeros).  ``recomputed``: True where the entry
-    was recomputed from the exact sums because its bound exceeded the tolerance.
+    nothing, ``0.0`` for triangle zeros and for zeros proven by the exact integer
+    path).  ``recomputed``: True where the entry was recomputed from the exact sums
+    because its bound exceeded the tolerance.
     """
 
     values: FArr
@@ -307,9 +325,10 @@ def _tri(x: IArr, y: IArr, z: IArr) -> BArr:
 
 def _racah_terms(a: IArr, b: IArr, c: IArr, d: IArr, e: IArr, f: IArr) -> tuple[IArr, IArr]:
     """(alpha, beta): the triad half-sums (4, n) and the column sums (3, n) of
-    DLMF 34.4.2 for {a b c; d e f}, doubled inputs with admissible triads."""
-    alpha = np.stack([(a + b + c) // 2, (a + e + f) // 2, (d + b + f) // 2, (d + e + c) // 2])
-    beta = np.stack([(a + b + d + e) // 2, (b + c + e + f) // 2, (c + a + f + d) // 2])
+    DLMF 34.4.2 for {a b c; d e f}, doubled inputs with admissible triads (even,
+    non-negative sums, so a shift halves them)."""
+    alpha = np.stack([(a + b + c) >> 1, (a + e + f) >> 1, (d + b + f) >> 1, (d + e + c) >> 1])
+    beta = np.stack([(a + b + d + e) >> 1, (b + c + e + f) >> 1, (c + a + f + d) >> 1])
     return alpha, beta
 
 
@@ -403,6 +422,74 @@ def _racah_exact_dd(alpha: tuple[int, ...], beta: tuple[int, ...]) -> tuple[floa
     return hi, float(exact - Fraction(hi))
 
 
+# -- small arguments: exact integer sums ----------------------------------------------------
+
+# n! for n <= 20 as int64 (20! < 2^63 < 21!).
+_FACT_INT = np.array([math.factorial(n) for n in range(21)], dtype=np.int64)
+#: Largest doubled sum of four 6j entries (a column sum beta of DLMF 34.4.2, doubled)
+#: for the exact integer path: then every factorial it needs is at most 20!.
+_INT_BETA = 38
+
+
+def _racah_ints(alpha: IArr, beta: IArr) -> IArr:
+    """Racah's sum of DLMF 34.4.2, ``sum_s (-1)^s (s+1)! / (prod (s-alpha)! prod
+    (beta-s)!)``, as exact int64, for admissible 6j with ``min(beta) <= 19``.
+
+    Every term is an integer: the seven factorial arguments below add up to s
+    (sum alpha = sum beta, the sum of the six entries), so the term is (s+1) times
+    a multinomial coefficient (own argument from the formula; common practice).
+    The first term is (s+1)! over the product of the seven factorials, a product
+    at most smin! (a multinomial coefficient is >= 1), so it fits; and
+    t(s+1) = -t(s) (s+2) prod (beta-s) / prod (s+1-alpha) is an exact division.
+    No overflow: |t(s)| times the numerator equals |t(s+1)| times the
+    denominator, which is (s+2)! / (prod (s-alpha)! prod (beta-s-1)!) <= (smax+1)!
+    <= 20!, and the sum of the terms is below 1.1 * 20! < 2^62.  Past smax the
+    numerator holds the factor min(beta) - s = 0, so the term stays 0 and every
+    entry can run the same number of steps.
+    """
+    smin = alpha.max(axis=0)
+    steps = beta.min(axis=0) - smin
+    fact = _FACT_INT
+    den = fact[smin - alpha[0]] * fact[smin - alpha[1]] * fact[smin - alpha[2]]
+    den *= fact[smin - alpha[3]] * fact[beta[0] - smin]
+    den *= fact[beta[1] - smin] * fact[beta[2] - smin]
+    t = fact[smin + 1] // den
+    t = np.where(smin & 1 == 1, -t, t)
+    total: IArr = t.copy()
+    for k in range(int(steps.max()) if steps.size else 0):
+        s = smin + k
+        num = (s + 2) * (beta[0] - s) * (beta[1] - s) * (beta[2] - s)
+        den = (s + 1 - alpha[0]) * (s + 1 - alpha[1]) * (s + 1 - alpha[2]) * (s + 1 - alpha[3])
+        t = -(t * num) // den
+        total += t
+    return total
+
+
+def _triad_ints(x: IArr, y: IArr, z: IArr) -> IArr:
+    """1 / Delta^2(x y z) = (J+1)! / (k1! k2! k3!) as exact int64 (DLMF 34.2.5), for
+    J + 1 <= 20; k1 + k2 + k3 = J, so the denominator is at most J! and divides."""
+    fact = _FACT_INT
+    den = fact[(x + y - z) >> 1] * fact[(x - y + z) >> 1] * fact[(-x + y + z) >> 1]
+    out: IArr = fact[((x + y + z) >> 1) + 1] // den
+    return out
+
+
+def _sixj_ints(a: IArr, b: IArr, c: IArr, d: IArr, e: IArr, f: IArr) -> tuple[FArr, FArr]:
+    """Admissible 6j with a column sum ``a+b+d+e``, ``b+c+e+f`` or ``c+a+f+d``
+    (doubled) at most ``_INT_BETA``: value R / sqrt(N1 N2 N3 N4), R the exact Racah
+    sum and N_k the exact 1 / Delta^2 of the four triads (each triad half-sum is an
+    alpha, so at most smax <= 19)."""
+    alpha, beta = _racah_terms(a, b, c, d, e, f)
+    r = _racah_ints(alpha, beta)
+    prod = _triad_ints(a, b, c).astype(np.float64)
+    for x, y, z in ((a, e, f), (d, b, f), (d, e, c)):
+        prod *= _triad_ints(x, y, z)
+    # Roundings: R to float (u), three products of exact integers below 2^53 (3 u),
+    # the square root (half of that plus u), the division (u): 5.5 u; 8 u claimed.
+    value = r.astype(np.float64) / np.sqrt(prod)
+    return value, np.where(r == 0, 0.0, 8.0 * _U)
+
+
 # -- 6j -------------------------------------------------------------------------------------
 
 
@@ -412,7 +499,13 @@ def _sixj_chunk(rows: IArr) -> tuple[FArr, FArr]:
     bound = np.zeros(rows.shape[0])
     a, b, c, d, e, f = (rows[:, k] for k in range(6))
     ok = _tri(a, b, c) & _tri(a, e, f) & _tri(d, b, f) & _tri(d, e, c)
-    idx = np.flatnonzero(ok)
+    # Small arguments: the exact integer sums (any column sum within reach will do,
+    # since it bounds smax).
+    small = ok & (np.minimum(np.minimum(a + b + d + e, b + c + e + f), c + a + f + d) <= _INT_BETA)
+    sel = np.flatnonzero(small)
+    if sel.size:
+        out[sel], bound[sel] = _sixj_ints(*(rows[sel, k] for k in range(6)))
+    idx = np.flatnonzero(ok & ~small)
     if idx.size == 0:
         return out, bound
     a, b, c, d, e, f = (rows[idx, k] for k in range(6))
@@ -492,6 +585,77 @@ def sixj_float_many(args: object, *, tolerance: float = BULK_TOLERANCE) -> FArr:
 # -- 9j -------------------------------------------------------------------------------------
 
 
+def _x_pairs(lo_x: IArr, hi_x: IArr) -> tuple[IArr, IArr, IArr, IArr]:
+    """The (symbol, x) pairs of DLMF 34.6.2, x from lo_x to hi_x in steps of 2
+    (doubled): (counts, starts, seg, x), where seg[k] is the symbol of pair k and
+    starts[n] the first pair of symbol n."""
+    counts = (hi_x - lo_x) // 2 + 1
+    starts = np.concatenate([[0], np.cumsum(counts)[:-1]])
+    seg = np.repeat(np.arange(counts.size), counts)
+    x = lo_x[seg] + 2 * (np.arange(seg.size) - starts[seg])
+    return counts, starts, seg, x
+
+
+def _ninej_inner(*entries: IArr) -> tuple[IArr, IArr]:
+    """(alpha, beta) of the three 6j {a d g; h i x} {b e h; d x f} {c f i; x a b} of
+    DLMF 34.6.2, stacked: shapes (4, 3m) and (3, 3m) for m (symbol, x) pairs."""
+    a, b, c, d, e, f, g, h, i, x = entries
+    sixes = ((a, d, g, h, i, x), (b, e, h, d, x, f), (c, f, i, x, a, b))
+    parts = [_racah_terms(*s) for s in sixes]
+    alpha = np.concatenate([p[0] for p in parts], axis=1)
+    return alpha, np.concatenate([p[1] for p in parts], axis=1)
+
+
+def _ninej_ints(rows: IArr, lo_x: IArr, hi_x: IArr) -> tuple[FArr, FArr, BArr]:
+    """Admissible 9j whose inner column sums are at most ``_INT_BETA``, from exact
+    integers: (values, bounds, done); ``done`` is False where the check below failed.
+
+    DLMF 34.6.2 with each 6j written as R / sqrt(N1 N2 N3 N4) (``_sixj_ints``): the
+    x-dependent triads (a i x), (h d x), (b f x) occur twice, so ``9j = S / sqrt(M)``,
+    M the product of the six row and column N, and ``S = sum_x P_x / Q_x`` with
+    ``P_x = (-1)^(2x) (2x+1) R1 R2 R3`` and Q_x the product of the three x-dependent N.
+
+    In every case we have met, each P_x / Q_x is an integer T_x; the path relies on
+    that only where it is checked (own argument).  T = rint(P / Q) is taken from
+    float64: nine roundings, so within 10 u |P / Q| <= 0.32 of P / Q while
+    |P / Q| < 2^48, and rint gives P / Q whenever that is an integer.  Then
+    ``T Q == P`` is tested in uint64, whose conversions and products are taken
+    modulo 2^64 (numpy's uint64 is C's unsigned arithmetic; C11 6.2.5 and
+    6.3.1.3, from memory).
+    With Q < 2^62 the integer D = T Q - P has |D| <= 0.82 Q < 2^63, so D = 0
+    modulo 2^64 means D = 0 and P / Q = T exactly.  A symbol with a term that
+    fails (or is too large) is left to the double-double path; otherwise
+    S = sum_x T_x is exact, and a nontrivial zero is S == 0.
+    """
+    a, b, c, d, e, f, g, h, i = (rows[:, k] for k in range(9))
+    _, starts, seg, x = _x_pairs(lo_x, hi_x)
+    m = seg.size
+    A, B, D, F, H, I_ = (v[seg] for v in (a, b, d, f, h, i))
+    r = _racah_ints(*_ninej_inner(A, B, c[seg], D, e[seg], F, g[seg], H, I_, x))
+    n1, n2, n3 = _triad_ints(A, I_, x), _triad_ints(H, D, x), _triad_ints(B, F, x)
+    fq = n1.astype(np.float64) * n2 * n3
+    signed = np.where(x & 1 == 1, -(x + 1), x + 1)  # (-1)^(2x) (2x+1), x doubled
+    ratio = signed * r[:m].astype(np.float64) * r[m : 2 * m] * r[2 * m :] / fq
+    fits = (fq < 2.0**62) & (np.abs(ratio) < 2.0**48)
+    t = np.rint(np.where(fits, ratio, 0.0)).astype(np.int64)
+    # The check modulo 2^64 (uint64: casts and products wrap by definition).
+    ru = r.astype(np.uint64)
+    p_mod = signed.astype(np.uint64) * ru[:m] * ru[m : 2 * m] * ru[2 * m :]
+    q_mod = n1.astype(np.uint64) * n2.astype(np.uint64) * n3.astype(np.uint64)
+    done = np.logical_and.reduceat(fits & (t.astype(np.uint64) * q_mod == p_mod), starts)
+    # At most 10 terms (x <= min(a+i, d+h) <= 19, doubled), each below 2^48.
+    total = np.add.reduceat(t, starts)
+
+    prod = _triad_ints(a, b, c).astype(np.float64)
+    for y, z, w in ((d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)):
+        prod *= _triad_ints(y, z, w)
+    # Roundings: the exact sum (below 2^53) to float is exact; five products of
+    # exact integers below 2^53 (5 u), the square root (half of that plus u), the
+    # division (u): 4.5 u; 8 u claimed.
+    value = total.astype(np.float64) / np.sqrt(prod)
+    return value, np.where(total == 0, 0.0, 8.0 * _U), done
+
+
 def _ninej_chunk(rows: IArr) -> tuple[FArr, FArr]:
     """Values and proven relative bounds of 9j rows (DLMF 34.6.2)."""
     n_rows = rows.shape[0]
@@ -504,22 +668,26 @@ def _ninej_chunk(rows: IArr) -> tuple[FArr, FArr]:
     hi_x = np.minimum(np.minimum(a + i, d + h), b + f)
     ok &= (hi_x >= lo_x) & ((a + i + lo_x) % 2 == 0) & ((d + h + lo_x) % 2 == 0)
     ok &= (b + f + lo_x) % 2 == 0
+    # Small arguments: the exact integer sums.  The three inner 6j have the column
+    # sums a+d+h+i, b+d+f+h and a+b+f+i whatever x is, and those bound every smax.
+    small = ok & (a + d + h + i <= _INT_BETA) & (b + d + f + h <= _INT_BETA)
+    small &= a + b + f + i <= _INT_BETA
+    sel = np.flatnonzero(small)
+    if sel.size:
+        v, bd, done = _ninej_ints(rows[sel], lo_x[sel], hi_x[sel])
+        sel = sel[done]
+        out[sel] = v[done]
+        bound[sel] = bd[done]
+        ok[sel] = False  # the rest (a term not proven an integer) take the path below
     idx = np.flatnonzero(ok)
     if idx.size == 0:
         return out, bound
     a, b, c, d, e, f, g, h, i = (rows[idx, k] for k in range(9))
-    lo_x = lo_x[idx]
-    counts = (hi_x[idx] - lo_x) // 2 + 1
-    starts = np.concatenate([[0], np.cumsum(counts)[:-1]])
-    seg = np.repeat(np.arange(idx.size), counts)
-    x = lo_x[seg] + 2 * (np.arange(seg.size) - starts[seg])
+    counts, starts, seg, x = _x_pairs(lo_x[idx], hi_x[idx])
     A, B, C, D, E, F, G, H, I_ = (v[seg] for v in (a, b, c, d, e, f, g, h, i))
 
     # The three 6j of each term, Racah sums stacked into one vectorised pass.
-    sixes = ((A, D, G, H, I_, x), (B, E, H, D, x, F), (C, F, I_, x, A, B))
-    parts = [_racah_terms(*s) for s in sixes]
-    alpha = np.concatenate([p[0] for p in parts], axis=1)
-    beta = np.concatenate([p[1] for p in parts], axis=1)
+    alpha, beta = _ninej_inner(A, B, C, D, E, F, G, H, I_, x)
     smin, rh, rl, rel = _racah_sums(alpha, beta)
     # Inner sums the bound cannot vouch for (near zero, or overflowing at very
     # large j): take them from the exact integer sum instead (error <= 2 u^2).
@@ -621,8 +789,8 @@ def ninej_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE)
 
     >>> import numpy as np
     >>> got = ninej_float_many_checked(np.array([[2, 2, 2, 2, 2, 2, 2, 2, 2]]))
-    >>> float(got.values[0]), bool(got.recomputed[0])  # a nontrivial zero
-    (0.0, True)
+    >>> float(got.values[0]), float(got.bound[0])  # a nontrivial zero, proven exact
+    (0.0, 0.0)
     """
     where = "ninej_float_many"
     tol = _check_tolerance(tolerance, where)
