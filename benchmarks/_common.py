@@ -125,16 +125,16 @@ def clear_symbol_caches() -> None:
 
     for cached in (
         bulk._racah_exact_dd,
-        values.sixj_doubled,
+        values._sixj_doubled,
         values._sixj_canonical,
-        values.ninej_doubled,
+        values._ninej_doubled,
         values._ninej_canonical,
-        values.cg_doubled,
-        values.threej_doubled,
-        floats.sixj_float_doubled,
-        floats.ninej_float_doubled,
-        floats.cg_float_doubled,
-        floats.threej_float_doubled,
+        values._cg_doubled,
+        values._threej_doubled,
+        floats._sixj_float_doubled,
+        floats._ninej_float_doubled,
+        floats._cg_float_doubled,
+        floats._threej_float_doubled,
     ):
         cached.cache_clear()
 

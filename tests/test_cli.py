@@ -404,7 +404,8 @@ def test_bad_output_names_fail_before_the_work(
     for argv, words in cases:
         status, out, err = run(*argv)
         assert (status, out) == (2, ""), (argv, err)
-        assert words in err and err.count("\n") == 1, (argv, err)
+        assert words in err, (argv, err)
+        assert err.count("\n") == 1, (argv, err)
 
 
 def test_internal_error_is_status_1_and_one_line(monkeypatch: pytest.MonkeyPatch) -> None:

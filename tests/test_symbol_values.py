@@ -9,6 +9,7 @@ from __future__ import annotations
 import random
 from fractions import Fraction
 
+import numpy as np
 import pytest
 from sympy import Rational
 from sympy.physics.wigner import clebsch_gordan as sympy_cg
@@ -18,13 +19,17 @@ from recouple.errors import BadValue
 from recouple.numbers import Radical
 from recouple.symbols import (
     cg_doubled,
+    cg_float_doubled,
     clebsch_gordan,
     ninej,
     ninej_doubled,
+    ninej_float_doubled,
     sixj,
     sixj_doubled,
+    sixj_float_doubled,
     threej,
     threej_doubled,
+    threej_float_doubled,
 )
 
 
@@ -185,6 +190,74 @@ def test_public_functions_accept_text_and_fractions() -> None:
 def test_bad_input_is_refused(call, match: str) -> None:  # type: ignore[no-untyped-def]
     with pytest.raises(BadValue, match=match):
         call()
+
+
+# The entry points on doubled ints check their arguments too: before, a negative
+# 2j gave a zero, a float a raw TypeError, and 2j far above the limit ran on.
+_DOUBLED_FUNCTIONS = [
+    (sixj_doubled, 6, 6),
+    (ninej_doubled, 9, 9),
+    (threej_doubled, 6, 3),
+    (cg_doubled, 6, 3),
+    (sixj_float_doubled, 6, 6),
+    (ninej_float_doubled, 9, 9),
+    (threej_float_doubled, 6, 3),
+    (cg_float_doubled, 6, 3),
+]
+
+
+def _cg_order(args: list[object]) -> list[object]:
+    """(j1 j2 j m1 m2 m) in the argument order of the CG functions (j1 m1 j2 m2 j m)."""
+    j1, j2, j, m1, m2, m = args
+    return [j1, m1, j2, m2, j, m]
+
+
+@pytest.mark.parametrize(("fn", "width", "spins"), _DOUBLED_FUNCTIONS)
+@pytest.mark.parametrize(
+    ("bad", "match"),
+    [
+        (-2, r"\(2j\) must be >= 0, got -2"),
+        (2.0, r"must be an int, got 2.0"),
+        (True, r"must be an int, got True"),
+        ("2", r"must be an int, got '2'"),
+        (2002, r"above the limit 2 MAX_SPIN = 2000"),
+        (10**40, r"above the limit 2 MAX_SPIN = 2000"),
+    ],
+)
+def test_doubled_entry_points_refuse_bad_arguments(fn, width, spins, bad, match) -> None:  # type: ignore[no-untyped-def]
+    for k in range(spins):
+        args: list[object] = [2] * width
+        args[k] = bad
+        if fn in (cg_doubled, cg_float_doubled):
+            args = _cg_order(args)
+        with pytest.raises(BadValue, match=match):
+            fn(*args)
+
+
+@pytest.mark.parametrize(("fn", "width", "spins"), _DOUBLED_FUNCTIONS)
+def test_doubled_entry_points_read_numpy_ints_by_value(fn, width, spins) -> None:  # type: ignore[no-untyped-def]
+    # Arguments large enough that int64 products would overflow inside the sums.
+    rng = random.Random(width * 10 + spins)
+    for _ in range(5):
+        if width == 9:
+            x = [rng.randrange(0, 60) for _ in range(4)]
+            plain = [x[0], x[1], x[0] + x[1], x[2], x[3], x[2] + x[3],
+                     x[0] + x[2], x[1] + x[3], x[0] + x[1] + x[2] + x[3]]  # fmt: skip
+        elif spins == 6:
+            a, b, d = (rng.randrange(100, 400, 2) for _ in range(3))
+            plain = [a, b, a + b, d, a + b + d, b + d]
+        else:
+            j1, j2 = rng.randrange(100, 400), rng.randrange(100, 400)
+            m1, m2 = j1 - 2 * rng.randrange(0, j1 + 1), j2 - 2 * rng.randrange(0, j2 + 1)
+            plain = [j1, j2, j1 + j2, m1, m2, -(m1 + m2)]
+            if fn in (cg_doubled, cg_float_doubled):
+                plain[5] = m1 + m2  # <j1 m1 j2 m2 | j m> has m = m1 + m2
+                plain = _cg_order(plain)
+        wide = [np.int64(v) for v in plain]
+        assert fn(*wide) == fn(*plain)
+        # stretched couplings (c = a + b) never give zero (from memory: their closed
+        # forms are single products), so a value is compared, not two zeros
+        assert fn(*plain) != 0
 
 
 @pytest.mark.parametrize(

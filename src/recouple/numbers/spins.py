@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import math
 import numbers
+import operator
 from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 
@@ -25,6 +26,7 @@ from recouple.errors import BadValue
 
 __all__ = [
     "MAX_SPIN",
+    "check_doubled",
     "coupled_range",
     "is_triad",
     "parse_projection",
@@ -129,6 +131,46 @@ def _exponent_form(text: str, *, where: str, rule: str, shown: str) -> Fraction:
     if dec.adjusted() < -_EXPONENT_REACH:
         return Fraction(sign, 10 ** (_EXPONENT_REACH + 1))
     return Fraction(dec)
+
+
+_DOUBLED_LIMIT = 2 * MAX_SPIN
+
+
+def check_doubled(values: tuple[object, ...], names: str, spins: int) -> tuple[int, ...]:
+    """Doubled arguments (``2j``, then ``2m``) as plain ints, or a one-line error.
+
+    ``names`` are the argument names, space-separated; the first ``spins`` are
+    angular momenta (``0 <= 2j <= 2 MAX_SPIN``), the rest projections
+    (``|2m| <= 2 MAX_SPIN``).  Any integer type (numpy's included) is read by its
+    value; ``bool``, floats and text are refused, since a doubled argument is a
+    count, not a value to round.  The common case (plain ints in range) costs one
+    pass.
+
+    >>> check_doubled((2, 1, -1), "j m1 m2", 1)
+    (2, 1, -1)
+    >>> check_doubled((2, -2), "a b", 2)
+    Traceback (most recent call last):
+    ...
+    recouple.errors.BadValue: doubled argument 'b' (2j) must be >= 0, got -2
+    """
+    limit = _DOUBLED_LIMIT
+    for k, x in enumerate(values):
+        if type(x) is not int or not (0 if k < spins else -limit) <= x <= limit:
+            break
+    else:
+        return values  # type: ignore[return-value]  # every entry checked to be an int
+    out = []
+    for k, (x, name) in enumerate(zip(values, names.split(), strict=True)):
+        what = f"doubled argument {name!r} ({'2j' if k < spins else '2m'})"
+        if isinstance(x, bool) or not hasattr(type(x), "__index__"):
+            raise BadValue(f"{what} must be an int, got {_shown(x)}")
+        v = operator.index(x)  # type: ignore[arg-type]  # has __index__, checked above
+        if k < spins and v < 0:
+            raise BadValue(f"{what} must be >= 0, got {v}")
+        if abs(v) > limit:
+            raise BadValue(f"{what} is {_shown(v)}, above the limit 2 MAX_SPIN = {limit}")
+        out.append(v)
+    return tuple(out)
 
 
 def parse_spin(value: object, *, name: str | None = None) -> Fraction:

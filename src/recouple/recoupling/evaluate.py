@@ -41,8 +41,8 @@ from recouple.numbers._integers import squarefree_split
 from recouple.numbers.radicals import Radical, radical_from_parts
 from recouple.numbers.spins import MAX_SPIN, spin_text, to_doubled
 from recouple.recoupling.formula import Formula, summation_order
-from recouple.symbols.floats import ninej_float_doubled, sixj_float_doubled
-from recouple.symbols.values import ninej_doubled, sixj_doubled
+from recouple.symbols.floats import _ninej_float_doubled, _sixj_float_doubled
+from recouple.symbols.values import _ninej_doubled, _sixj_doubled
 
 __all__ = [
     "check_labels",
@@ -204,13 +204,13 @@ class _Part:
                     num, den, rad = num * g, den * r * f, (rad // g) * (f // g)
             x = (num, den, rad)
         for s in self.sixjs:
-            terms = sixj_doubled(d[s[0]], d[s[1]], d[s[2]], d[s[3]], d[s[4]], d[s[5]]).terms
+            terms = _sixj_doubled(d[s[0]], d[s[1]], d[s[2]], d[s[3]], d[s[4]], d[s[5]]).terms
             if not terms:
                 return None
             (rad, q), *_ = terms
             x = _mul(x, q, rad)
         for n in self.ninejs:
-            terms = ninej_doubled(*(d[k] for k in n)).terms
+            terms = _ninej_doubled(*(d[k] for k in n)).terms
             if not terms:
                 return None
             (rad, q), *_ = terms
@@ -223,9 +223,9 @@ class _Part:
         for k, p in self.hats:
             value *= (d[k] + 1) ** (p / 2)
         for s in self.sixjs:
-            value *= sixj_float_doubled(d[s[0]], d[s[1]], d[s[2]], d[s[3]], d[s[4]], d[s[5]])
+            value *= _sixj_float_doubled(d[s[0]], d[s[1]], d[s[2]], d[s[3]], d[s[4]], d[s[5]])
         for n in self.ninejs:
-            value *= ninej_float_doubled(*(d[k] for k in n))
+            value *= _ninej_float_doubled(*(d[k] for k in n))
         return value
 
 

@@ -44,8 +44,8 @@ from recouple.numbers.spins import (
 )
 from recouple.schemes.notation import parse
 from recouple.schemes.tree import Coupling, Leaf, Node, check_scheme
-from recouple.symbols.floats import cg_float_doubled
-from recouple.symbols.values import cg_doubled
+from recouple.symbols.floats import _cg_float_doubled
+from recouple.symbols.values import _cg_doubled
 
 __all__ = [
     "EXACT_LIMIT",
@@ -393,7 +393,7 @@ def _exact_zero() -> Radical:
 
 def _exact_cg(dj1: int, dm1: int, dj2: int, dm2: int, dj: int, dm: int) -> _Exact | None:
     """``cg_doubled`` as ``(s, n, d)``; a CG coefficient is one term ``q*sqrt(s)``."""
-    value = cg_doubled(dj1, dm1, dj2, dm2, dj, dm)
+    value = _cg_doubled(dj1, dm1, dj2, dm2, dj, dm)
     if not value:
         return None
     ((radicand, q),) = value.terms
@@ -415,7 +415,7 @@ def _exact_radical(x: _Exact) -> Radical:
 
 
 def _float_cg(dj1: int, dm1: int, dj2: int, dm2: int, dj: int, dm: int) -> float | None:
-    return cg_float_doubled(dj1, dm1, dj2, dm2, dj, dm) or None
+    return _cg_float_doubled(dj1, dm1, dj2, dm2, dj, dm) or None
 
 
 def _state(

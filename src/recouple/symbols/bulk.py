@@ -73,7 +73,7 @@ import numpy.typing as npt
 from recouple.errors import BadValue
 from recouple.numbers._integers import factorial_table
 from recouple.numbers.spins import MAX_SPIN
-from recouple.symbols.floats import ninej_float_doubled, sixj_float_doubled
+from recouple.symbols.floats import _ninej_float_doubled, _sixj_float_doubled
 from recouple.symbols.values import _racah_sum6
 
 __all__ = [
@@ -563,7 +563,7 @@ def sixj_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE) 
             v, bd = _sixj_chunk(rows[start : start + _CHUNK6])
             values[start : start + _CHUNK6] = v
             bound[start : start + _CHUNK6] = bd
-    return _vouched(rows, values, bound, tol, sixj_float_doubled)
+    return _vouched(rows, values, bound, tol, _sixj_float_doubled)
 
 
 def sixj_float_many(args: object, *, tolerance: float = BULK_TOLERANCE) -> FArr:
@@ -808,7 +808,7 @@ def ninej_float_many_checked(args: object, *, tolerance: float = BULK_TOLERANCE)
             values[start:stop] = v
             bound[start:stop] = bd
             start = stop
-    return _vouched(rows, values, bound, tol, ninej_float_doubled)
+    return _vouched(rows, values, bound, tol, _ninej_float_doubled)
 
 
 def ninej_float_many(args: object, *, tolerance: float = BULK_TOLERANCE) -> FArr:

@@ -25,7 +25,7 @@ from __future__ import annotations
 from functools import lru_cache
 
 from recouple.numbers.radicals import _float_sqrt_ratio
-from recouple.numbers.spins import MAX_SPIN
+from recouple.numbers.spins import MAX_SPIN, check_doubled
 from recouple.symbols.values import (
     CACHE_SIZE,
     Parts,
@@ -66,42 +66,42 @@ def _to_float(parts: Parts | None) -> float:
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def sixj_float_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> float:
+def _sixj_float_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> float:
     """{a b c; d e f} as a float, doubled arguments (DLMF 34.4.2).
 
-    >>> sixj_float_doubled(1, 1, 2, 1, 1, 0)
+    >>> _sixj_float_doubled(1, 1, 2, 1, 1, 0)
     0.5
     """
     return _to_float(_sixj_parts(a, b, c, d, e, f))
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def ninej_float_doubled(
+def _ninej_float_doubled(
     a: int, b: int, c: int, d: int, e: int, f: int, g: int, h: int, i: int
 ) -> float:
     """{a b c; d e f; g h i} as a float, doubled arguments (DLMF 34.6.2).
 
-    >>> ninej_float_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4)
+    >>> _ninej_float_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4)
     0.1111111111111111
     """
     return _to_float(_ninej_parts(a, b, c, d, e, f, g, h, i))
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def cg_float_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> float:
+def _cg_float_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> float:
     """<j1 m1 j2 m2 | j m> as a float, doubled arguments (CONVENTIONS 1.1).
 
-    >>> cg_float_doubled(1, 1, 1, -1, 0, 0)
+    >>> _cg_float_doubled(1, 1, 1, -1, 0, 0)
     0.7071067811865476
     """
     return _to_float(_threej_parts(j1, j2, j, m1, m2, -m, True))
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def threej_float_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> float:
+def _threej_float_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> float:
     """(j1 j2 j3; m1 m2 m3) as a float, doubled arguments (DLMF 34.2.4).
 
-    >>> round(threej_float_doubled(2, 2, 0, 0, 0, 0), 15)
+    >>> round(_threej_float_doubled(2, 2, 0, 0, 0, 0), 15)
     -0.577350269189626
     """
     value = _to_float(_threej_parts(j1, j2, j3, m1, m2, m3, False))
@@ -114,7 +114,7 @@ def sixj_float(a: object, b: object, c: object, d: object, e: object, f: object)
     >>> sixj_float("1/2", "1/2", 1, "1/2", "1/2", 1)
     0.16666666666666666
     """
-    return sixj_float_doubled(*_spins((a, b, c, d, e, f), ("a", "b", "c", "d", "e", "f")))
+    return _sixj_float_doubled(*_spins((a, b, c, d, e, f), ("a", "b", "c", "d", "e", "f")))
 
 
 def ninej_float(
@@ -134,7 +134,7 @@ def ninej_float(
     0.1111111111111111
     """
     names = ("a", "b", "c", "d", "e", "f", "g", "h", "i")
-    return ninej_float_doubled(*_spins((a, b, c, d, e, f, g, h, i), names))
+    return _ninej_float_doubled(*_spins((a, b, c, d, e, f, g, h, i), names))
 
 
 def cg_float(j1: object, m1: object, j2: object, m2: object, j: object, m: object) -> float:
@@ -144,7 +144,7 @@ def cg_float(j1: object, m1: object, j2: object, m2: object, j: object, m: objec
     True
     """
     dj1, dj2, dj = _spins((j1, j2, j), ("j1", "j2", "j"))
-    return cg_float_doubled(
+    return _cg_float_doubled(
         dj1, _projection(m1, "m1"), dj2, _projection(m2, "m2"), dj, _projection(m, "m")
     )
 
@@ -156,6 +156,50 @@ def threej_float(j1: object, j2: object, j3: object, m1: object, m2: object, m3:
     0.577350269189626
     """
     dj1, dj2, dj3 = _spins((j1, j2, j3), ("j1", "j2", "j3"))
-    return threej_float_doubled(
+    return _threej_float_doubled(
         dj1, dj2, dj3, _projection(m1, "m1"), _projection(m2, "m2"), _projection(m3, "m3")
     )
+
+
+# -- checked entry points on doubled arguments (as in recouple.symbols.values) ----------
+
+
+def sixj_float_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> float:
+    """{a b c; d e f} as a float, doubled arguments, checked.
+
+    >>> sixj_float_doubled(1, 1, 2, 1, 1, 0)
+    0.5
+    """
+    return _sixj_float_doubled(*check_doubled((a, b, c, d, e, f), "a b c d e f", 6))
+
+
+def ninej_float_doubled(
+    a: int, b: int, c: int, d: int, e: int, f: int, g: int, h: int, i: int
+) -> float:
+    """{a b c; d e f; g h i} as a float, doubled arguments (rows in order), checked.
+
+    >>> ninej_float_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4)
+    0.1111111111111111
+    """
+    args = check_doubled((a, b, c, d, e, f, g, h, i), "a b c d e f g h i", 9)
+    return _ninej_float_doubled(*args)
+
+
+def cg_float_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> float:
+    """<j1 m1 j2 m2 | j m> as a float, doubled arguments, checked.
+
+    >>> cg_float_doubled(1, 1, 1, -1, 0, 0) == 0.5**0.5
+    True
+    """
+    dj1, dj2, dj, dm1, dm2, dm = check_doubled((j1, j2, j, m1, m2, m), "j1 j2 j m1 m2 m", 3)
+    return _cg_float_doubled(dj1, dm1, dj2, dm2, dj, dm)
+
+
+def threej_float_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> float:
+    """(j1 j2 j3; m1 m2 m3) as a float, doubled arguments, checked.
+
+    >>> round(threej_float_doubled(2, 2, 0, 0, 0, 0), 15)
+    -0.577350269189626
+    """
+    args = check_doubled((j1, j2, j3, m1, m2, m3), "j1 j2 j3 m1 m2 m3", 3)
+    return _threej_float_doubled(*args)

@@ -4,7 +4,8 @@ Each public function takes ints, Fractions or text such as ``"3/2"``; bad
 input raises :class:`~recouple.errors.BadValue`; a valid input that breaks a
 selection rule (triangle, integer sums, ``m`` sum, ``|m| > j``, ``j + m`` not an
 integer) gives exact zero.  The ``*_doubled`` entry points take ``2j`` and ``2m``
-as ints, skip validation and are cached.
+as ints (any integer type, numpy's included) with a quick range check; the
+library's own hot loops call the cached, unchecked ``_*_doubled`` versions.
 
 Method: Racah's single sums evaluated in Python integers on doubled arguments.
 The alternating sum is scaled by a common factorial denominator (a term
@@ -35,7 +36,7 @@ from recouple.numbers._integers import (
     primes_of_mask,
 )
 from recouple.numbers.radicals import Radical, radical_from_parts
-from recouple.numbers.spins import parse_projection, parse_spin
+from recouple.numbers.spins import check_doubled, parse_projection, parse_spin
 from recouple.symbols.canonical import NINEJ_INDEX_MAPS, SIXJ_INDEX_MAPS
 
 # itemgetters build each symmetric arrangement in C: the standard-form key of a
@@ -148,10 +149,10 @@ def _threej_sign(j1: int, j2: int, m3: int) -> int:
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def threej_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> Radical:
+def _threej_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> Radical:
     """The 3j symbol (j1 j2 j3; m1 m2 m3) from doubled ints (DLMF 34.2.4).
 
-    >>> print(threej_doubled(2, 2, 0, 2, -2, 0))  # DLMF 34.3.1: (-1)^(j-m)/sqrt(2j+1)
+    >>> print(_threej_doubled(2, 2, 0, 2, -2, 0))  # DLMF 34.3.1: (-1)^(j-m)/sqrt(2j+1)
     sqrt(1/3)
     """
     value = _radical(_threej_parts(j1, j2, j3, m1, m2, m3, False))
@@ -159,14 +160,14 @@ def threej_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> Radi
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def cg_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> Radical:
+def _cg_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> Radical:
     """<j1 m1 j2 m2 | j m> (Condon-Shortley) from doubled ints.
 
     From CONVENTIONS 1.1 (DLMF 34.1.1): the phases (-1)^(j1-j2+m) of the
     conversion and (-1)^(j1-j2+m) of the 3j (34.2.4, with m3 = -m) multiply to
     (-1)^(2(j1-j2+m)) = 1, so only Racah's sum and sqrt(2j+1) remain.
 
-    >>> print(cg_doubled(2, 2, 1, -1, 3, 1))
+    >>> print(_cg_doubled(2, 2, 1, -1, 3, 1))
     sqrt(1/3)
     """
     return _radical(_threej_parts(j1, j2, j, m1, m2, -m, True))
@@ -259,11 +260,11 @@ def _sixj_canonical(key: tuple[int, int, int, int, int, int]) -> Radical:
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def sixj_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> Radical:
+def _sixj_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> Radical:
     """{a b c; d e f} from doubled ints (DLMF 34.4.2), cached under its standard
     form among the 24 symmetric arrangements (DLMF 34.5.8).
 
-    >>> print(sixj_doubled(2, 2, 2, 2, 2, 2))
+    >>> print(_sixj_doubled(2, 2, 2, 2, 2, 2))
     1/6
     """
     entries = (a, b, c, d, e, f)
@@ -335,13 +336,13 @@ def _ninej_canonical(key: tuple[int, ...]) -> Radical:
 
 
 @lru_cache(maxsize=CACHE_SIZE)
-def ninej_doubled(
+def _ninej_doubled(
     a: int, b: int, c: int, d: int, e: int, f: int, g: int, h: int, i: int
 ) -> Radical:
     """The 9j {a b c; d e f; g h i} from doubled ints (rows in order; DLMF 34.6.2),
     cached under its standard form among the 72 arrangements (DLMF §34.7(ii)).
 
-    >>> print(ninej_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4))
+    >>> print(_ninej_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4))
     1/9
     """
     entries = (a, b, c, d, e, f, g, h, i)
@@ -380,7 +381,7 @@ def clebsch_gordan(j1: object, m1: object, j2: object, m2: object, j: object, m:
     Radical(0)
     """
     dj1, dj2, dj = _spins((j1, j2, j), ("j1", "j2", "j"))
-    return cg_doubled(
+    return _cg_doubled(
         dj1, _projection(m1, "m1"), dj2, _projection(m2, "m2"), dj, _projection(m, "m")
     )
 
@@ -392,7 +393,7 @@ def threej(j1: object, j2: object, j3: object, m1: object, m2: object, m3: objec
     sqrt(1/6)
     """
     dj1, dj2, dj3 = _spins((j1, j2, j3), ("j1", "j2", "j3"))
-    return threej_doubled(
+    return _threej_doubled(
         dj1, dj2, dj3, _projection(m1, "m1"), _projection(m2, "m2"), _projection(m3, "m3")
     )
 
@@ -403,7 +404,7 @@ def sixj(a: object, b: object, c: object, d: object, e: object, f: object) -> Ra
     >>> print(sixj("1/2", "1/2", 1, "1/2", "1/2", 0))
     1/2
     """
-    return sixj_doubled(*_spins((a, b, c, d, e, f), ("a", "b", "c", "d", "e", "f")))
+    return _sixj_doubled(*_spins((a, b, c, d, e, f), ("a", "b", "c", "d", "e", "f")))
 
 
 def ninej(
@@ -423,4 +424,50 @@ def ninej(
     (1/1274)*sqrt(3/5)
     """
     names = ("a", "b", "c", "d", "e", "f", "g", "h", "i")
-    return ninej_doubled(*_spins((a, b, c, d, e, f, g, h, i), names))
+    return _ninej_doubled(*_spins((a, b, c, d, e, f, g, h, i), names))
+
+
+# -- checked entry points on doubled arguments -------------------------------------------
+# The cached functions above trust their arguments (the library's own callers pass
+# checked ints); these public ones read any integer type and refuse the rest, so a
+# negative, float or out-of-range argument is an error, never a zero or a hang.
+
+
+def threej_doubled(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> Radical:
+    """The 3j symbol (j1 j2 j3; m1 m2 m3) from doubled ints (``2j``, ``2m``), checked.
+
+    >>> print(threej_doubled(2, 2, 0, 2, -2, 0))
+    sqrt(1/3)
+    """
+    args = check_doubled((j1, j2, j3, m1, m2, m3), "j1 j2 j3 m1 m2 m3", 3)
+    return _threej_doubled(*args)
+
+
+def cg_doubled(j1: int, m1: int, j2: int, m2: int, j: int, m: int) -> Radical:
+    """<j1 m1 j2 m2 | j m> (Condon-Shortley) from doubled ints, checked.
+
+    >>> print(cg_doubled(2, 2, 1, -1, 3, 1))
+    sqrt(1/3)
+    """
+    dj1, dj2, dj, dm1, dm2, dm = check_doubled((j1, j2, j, m1, m2, m), "j1 j2 j m1 m2 m", 3)
+    return _cg_doubled(dj1, dm1, dj2, dm2, dj, dm)
+
+
+def sixj_doubled(a: int, b: int, c: int, d: int, e: int, f: int) -> Radical:
+    """{a b c; d e f} from doubled ints, checked.
+
+    >>> print(sixj_doubled(2, 2, 2, 2, 2, 2))
+    1/6
+    """
+    return _sixj_doubled(*check_doubled((a, b, c, d, e, f), "a b c d e f", 6))
+
+
+def ninej_doubled(
+    a: int, b: int, c: int, d: int, e: int, f: int, g: int, h: int, i: int
+) -> Radical:
+    """The 9j {a b c; d e f; g h i} from doubled ints (rows in order), checked.
+
+    >>> print(ninej_doubled(1, 1, 2, 1, 1, 2, 2, 2, 4))
+    1/9
+    """
+    return _ninej_doubled(*check_doubled((a, b, c, d, e, f, g, h, i), "a b c d e f g h i", 9))
