@@ -484,8 +484,9 @@ def _sixj_ints(a: IArr, b: IArr, c: IArr, d: IArr, e: IArr, f: IArr) -> tuple[FA
     prod = _triad_ints(a, b, c).astype(np.float64)
     for x, y, z in ((a, e, f), (d, b, f), (d, e, c)):
         prod *= _triad_ints(x, y, z)
-    # Roundings: R to float (u), three products of exact integers below 2^53 (3 u),
-    # the square root (half of that plus u), the division (u): 5.5 u; 8 u claimed.
+    # Roundings: R and the four N to float (5 u at most: N can pass 2^53 and round),
+    # three products (3 u), the square root (half of the product's 7 u, plus u), the
+    # division (u): 6.5 u to first order; 8 u claimed.
     value = r.astype(np.float64) / np.sqrt(prod)
     return value, np.where(r == 0, 0.0, 8.0 * _U)
 
@@ -649,9 +650,10 @@ def _ninej_ints(rows: IArr, lo_x: IArr, hi_x: IArr) -> tuple[FArr, FArr, BArr]:
     prod = _triad_ints(a, b, c).astype(np.float64)
     for y, z, w in ((d, e, f), (g, h, i), (a, d, g), (b, e, h), (c, f, i)):
         prod *= _triad_ints(y, z, w)
-    # Roundings: the exact sum (below 2^53) to float is exact; five products of
-    # exact integers below 2^53 (5 u), the square root (half of that plus u), the
-    # division (u): 4.5 u; 8 u claimed.
+    # Roundings: the exact sum (below 10 * 2^48 < 2^53) to float is exact; the six N
+    # to float (6 u: N can pass 2^53 and round) and five products (5 u), the square
+    # root (half of those 11 u, plus u), the division (u): 7.5 u to first order; 8 u
+    # claimed.
     value = total.astype(np.float64) / np.sqrt(prod)
     return value, np.where(total == 0, 0.0, 8.0 * _U), done
 
