@@ -818,6 +818,23 @@ def test_bug_bad_values_fail_before_the_search(
     assert err.startswith(f"recouple: error: {message}")
 
 
+def test_bug_symbol_entries_fail_before_the_progress_line(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # `symbol` says it is computing when the value takes more than a second (an exact
+    # 9j at j ~ 1000 takes minutes); a bad entry must still fail first, on one line.
+    monkeypatch.setattr("recouple.cli.threading.Timer", _EagerTimer)
+    status, out, err = run("symbol", "9j", "1", "1", "1", "1", "1", "1", "1", "1", "x")
+    assert (status, out) == (2, "")
+    assert err == f"recouple: error: value of 'i' {RULE}, got 'x'\n"
+    status, out, err = run("symbol", "cg", "1", "1/4", "1", "0", "1", "1/4")
+    assert (status, out) == (2, "")
+    assert err == "recouple: error: value of 'm1' must be an integer or half-integer, got '1/4'\n"
+    status, out, err = run("symbol", "6j", "1", "1", "1", "1", "1", "1")
+    assert (status, out) == (0, "1/6  (0.166666666666667)\n")
+    assert err == "recouple: computing the symbol ...\n"
+
+
 def test_bug_api_values_fail_before_the_search(monkeypatch: pytest.MonkeyPatch) -> None:
     def no_search(*args: object, **kwargs: object) -> None:
         raise AssertionError("derive() ran before the values were checked")

@@ -251,7 +251,8 @@ def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     d = _derive(args, err, values, projecting=args.check)
     f = d.formula
     doubled = check_values(f, values)
-    value = evaluate(f, values)
+    with _progress("evaluating the formula", err):  # large j: sums of big symbols
+        value = evaluate(f, values)
     reason = why_zero(f, doubled)
     result: dict[str, Any] = {"value": float(value), "exact": str(value)}
     if reason:
@@ -282,9 +283,17 @@ def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
 
 
 _SYMBOL_ARITY = {"3j": 6, "cg": 6, "6j": 6, "9j": 9}
+# The entries' names, as the symbol functions call them in their messages.
+_SYMBOL_NAMES = {
+    "3j": ("j1", "j2", "j3", "m1", "m2", "m3"),
+    "cg": ("j1", "m1", "j2", "m2", "j", "m"),
+    "6j": ("a", "b", "c", "d", "e", "f"),
+    "9j": ("a", "b", "c", "d", "e", "f", "g", "h", "i"),
+}
 
 
 def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
+    from recouple.numbers.spins import parse_projection, parse_spin
     from recouple.symbols import values as sv
 
     kind = args.kind.lower()
@@ -300,7 +309,14 @@ def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
         "9j": sv.ninej,
     }
     fn = functions[kind]
-    value = fn(*args.entries)
+    # Read the entries first, so that bad ones fail before any progress line; the
+    # value itself can take a while (an exact 9j at j ~ 1000 takes minutes).
+    entries = [
+        (parse_projection if name.startswith("m") else parse_spin)(text, name=name)
+        for text, name in zip(args.entries, _SYMBOL_NAMES[kind], strict=True)
+    ]
+    with _progress("computing the symbol", err):
+        value = fn(*entries)
     if args.json:
         print(
             json.dumps(
