@@ -282,8 +282,8 @@ def _cmd_evaluate(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     return 0
 
 
-_SYMBOL_ARITY = {"3j": 6, "cg": 6, "6j": 6, "9j": 9}
-# The entries' names, as the symbol functions call them in their messages.
+# The entries of each symbol (their count is its arity), named as the symbol
+# functions name them in their messages.
 _SYMBOL_NAMES = {
     "3j": ("j1", "j2", "j3", "m1", "m2", "m3"),
     "cg": ("j1", "m1", "j2", "m2", "j", "m"),
@@ -297,9 +297,9 @@ def _cmd_symbol(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     from recouple.symbols import values as sv
 
     kind = args.kind.lower()
-    if kind not in _SYMBOL_ARITY:
+    if kind not in _SYMBOL_NAMES:
         raise BadValue(f"unknown symbol {args.kind!r}: choose 3j, 6j, 9j or cg")
-    need = _SYMBOL_ARITY[kind]
+    need = len(_SYMBOL_NAMES[kind])
     if len(args.entries) != need:
         raise BadValue(f"a {kind} takes {need} entries, got {len(args.entries)}")
     functions: dict[str, Callable[..., Any]] = {
